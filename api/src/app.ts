@@ -1,0 +1,112 @@
+import { randomUUID } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import * as OpenApiValidator from 'express-openapi-validator';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import swaggerUi from 'swagger-ui-express';
+import { parse as parseYaml } from 'yaml';
+import type { AppContext } from './context';
+import { databaseReadiness } from './db/data-source';
+import { errorHandler, notFoundHandler } from './lib/error-handler';
+import { problemType } from './lib/problem';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+export const openapiPath = path.resolve(here, '../../openapi/openapi.yaml');
+const consoleDist = path.resolve(here, '../../console/dist');
+
+/** Builds the Express app without listening: what server.ts and the tests use. */
+export function buildApp(ctx: AppContext): Express {
+  const app = express();
+  const openapiText = readFileSync(openapiPath, 'utf8');
+  const openapiDoc = parseYaml(openapiText);
+
+  app.disable('x-powered-by');
+  app.set('trust proxy', ctx.config.trustProxy);
+  app.set('query parser', 'extended');
+
+  app.use(
+    pinoHttp({
+      logger: ctx.log,
+      genReqId: (req, res) => {
+        const incoming = req.headers['x-request-id'];
+        const id = typeof incoming === 'string' && /^[\w.-]{1,100}$/.test(incoming) ? incoming : randomUUID();
+        res.setHeader('X-Request-Id', id);
+        return id;
+      },
+      autoLogging: { ignore: (req) => req.url === '/healthz' || req.url === '/metrics' },
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          'default-src': ["'self'"],
+          'img-src': ["'self'", 'data:'],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'script-src': ["'self'"],
+          'connect-src': ["'self'"],
+          'frame-ancestors': ["'none'"],
+        },
+      },
+    }),
+  );
+  app.use((req, res, next) => {
+    const end = ctx.metrics.httpDuration.startTimer();
+    res.on('finish', () => {
+      const route = req.route?.path ? `${req.baseUrl}${req.route.path}` : 'unmatched';
+      end({ method: req.method, route, status: String(res.statusCode) });
+    });
+    next();
+  });
+
+  app.get('/healthz', (_req, res) => {
+    res.json({ status: 'ok' });
+  });
+  app.get('/readyz', async (_req, res) => {
+    const ready = await databaseReadiness(ctx.db);
+    if (ready.ok) return res.json({ status: 'ready' });
+    res
+      .status(503)
+      .type('application/problem+json')
+      .setHeader('Retry-After', '5')
+      .send(JSON.stringify({ type: problemType('not-ready'), title: 'Not ready', status: 503, detail: ready.reason }));
+  });
+  app.get('/metrics', async (_req, res) => {
+    res.type(ctx.metrics.registry.contentType).send(await ctx.metrics.registry.metrics());
+  });
+  app.get('/openapi.yaml', (_req, res) => {
+    res.type('application/yaml').send(openapiText);
+  });
+  app.use('/docs', swaggerUi.serve, swaggerUi.setup(openapiDoc, { customSiteTitle: 'Gridwright API' }));
+
+  app.use(express.json({ limit: ctx.config.bodyLimit, type: ['application/json', 'application/*+json'] }));
+  app.use(cookieParser());
+  app.use(
+    OpenApiValidator.middleware({
+      apiSpec: openapiDoc,
+      validateRequests: { allErrors: true, removeAdditional: false },
+      validateResponses: false,
+      validateSecurity: false,
+      fileUploader: false,
+      ignorePaths: (p: string) => !p.startsWith('/v1'),
+    }),
+  );
+
+  // Resource routers are mounted here, one per resource (see DEVELOPERS.md).
+
+  if (existsSync(path.join(consoleDist, 'index.html'))) {
+    app.use(express.static(consoleDist, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (req, res, next) => {
+      if (req.path.startsWith('/v1') || !req.accepts('html')) return next();
+      res.sendFile(path.join(consoleDist, 'index.html'));
+    });
+  }
+
+  app.use(notFoundHandler);
+  app.use(errorHandler(ctx.log));
+  return app;
+}

@@ -1,0 +1,3 @@
+export function App() {
+  return <main className="p-8 font-sans">Gridwright console</main>;
+}

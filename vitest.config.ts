@@ -1,0 +1,13 @@
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    globalSetup: ['tests/support/global-setup.ts'],
+    include: ['tests/**/*.test.ts', 'console/src/**/*.test.ts'],
+    pool: 'forks',
+    maxWorkers: 2,
+    testTimeout: 60_000,
+    hookTimeout: 120_000,
+    env: { NODE_ENV: 'test' },
+  },
+});
