@@ -42,8 +42,12 @@ export function buildApp(ctx: AppContext): Express {
   );
   app.use(
     helmet({
+      // Behind plain http on loopback, upgrading requests or pinning HSTS would break the console.
+      strictTransportSecurity: ctx.config.cookieSecure,
       contentSecurityPolicy: {
         directives: {
+          'upgrade-insecure-requests': ctx.config.cookieSecure ? [] : null,
+          'font-src': ["'self'", 'data:'],
           'default-src': ["'self'"],
           'img-src': ["'self'", 'data:'],
           'style-src': ["'self'", "'unsafe-inline'"],
