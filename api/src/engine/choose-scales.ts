@@ -1,0 +1,57 @@
+import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+
+/** Internal units: a model variable of 1 means `powerKw` kW (kWh for SOC); an objective of 1 means `money`. */
+export interface Scales {
+  powerKw: number;
+  money: number;
+}
+
+const UNSCALED: Scales = { powerKw: 1, money: 1 };
+
+function powerOfTenNear(values: number[]): number {
+  const positive = values.filter((v) => v > 0 && Number.isFinite(v));
+  if (!positive.length) return 1;
+  let lo = Infinity;
+  let hi = 0;
+  for (const v of positive) {
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  // The geometric middle of the span puts the smallest and largest equally far from 1.
+  return 10 ** Math.round((Math.log10(lo) + Math.log10(hi)) / 2);
+}
+
+function maxOf(values: number[]): number {
+  let m = 0;
+  for (const v of values) if (v > m) m = v;
+  return m;
+}
+
+/**
+ * Powers of ten for power and money, so that bounds, right-hand sides and objective
+ * coefficients sit near 1 (HiGHS's numerics advice, common practice). Powers of ten keep the
+ * unscaled schedule exact in decimal.
+ */
+export function chooseScales(spec: ResolvedSiteSpec, enabled: boolean): Scales {
+  if (!enabled) return UNSCALED;
+  const powers = [
+    maxOf(spec.supply.availableKw),
+    maxOf(spec.siteLoad.kw),
+    spec.grid.importLimitKw,
+    spec.grid.exportLimitKw,
+    ...spec.units.map((u) => u.ratingKw),
+    ...spec.units.map((u) => u.minStableKw),
+    ...spec.storage.flatMap((s) => [s.maxChargeKw, s.maxDischargeKw, s.capacityKwh]),
+  ];
+  const powerKw = powerOfTenNear(powers);
+  const dh = spec.horizon.stepMinutes / 60;
+  const perStepValue = (pricePerKwh: number) => Math.abs(pricePerKwh) * dh * powerKw;
+  const money: number[] = [
+    ...spec.units.flatMap((u) => [perStepValue(u.valuePerKwh), perStepValue(u.costPerKwh), u.startupCost]),
+    ...spec.storage.map((s) => perStepValue(s.cycleCostPerKwh)),
+    perStepValue(spec.siteLoad.unservedPenaltyPerKwh ?? 0),
+    perStepValue(maxOf(spec.grid.importPrice.map(Math.abs))),
+    perStepValue(maxOf(spec.grid.exportPrice.map(Math.abs))),
+  ];
+  return { powerKw, money: powerOfTenNear(money) };
+}

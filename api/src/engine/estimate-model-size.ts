@@ -1,0 +1,37 @@
+import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import { buildWindowModel } from './build-window-model';
+import { initialState } from './carry-state';
+import { chooseSolveMode } from './choose-solve-mode';
+import { monolithicWindow, rollingWindows } from './horizon-windows';
+import { planWindow } from './plan-window';
+
+export interface ModelSizeEstimate {
+  mode: 'monolithic' | 'rolling';
+  windows: number;
+  variables: number;
+  binaries: { before: number; after: number };
+  constraints: number;
+}
+
+/**
+ * The model's size without solving. Monolithic: the exact counts of the one model. Rolling:
+ * the first window's counts scaled to all windows by their steps (later windows start from
+ * states not known before solving, so their exact sets are not either).
+ */
+export function estimateModelSize(spec: ResolvedSiteSpec): ModelSizeEstimate {
+  const mode = chooseSolveMode(spec);
+  const windows = mode === 'rolling' ? rollingWindows(spec) : monolithicWindow(spec);
+  const first = windows[0];
+  const plan = planWindow(spec, first, initialState(spec));
+  const built = buildWindowModel(plan);
+  const totalSteps = windows.reduce((n, w) => n + w.steps, 0);
+  const factor = totalSteps / first.steps;
+  const scale = (v: number) => Math.round(v * factor);
+  return {
+    mode,
+    windows: windows.length,
+    variables: scale(built.model.numCols),
+    binaries: { before: scale(plan.binariesBefore), after: scale(built.binaries) },
+    constraints: scale(built.model.numRows),
+  };
+}

@@ -1,0 +1,55 @@
+/** A MILP as plain arrays, maximised: what the solver adapter sends to HiGHS (CSC matrix). */
+export interface ModelArrays {
+  numCols: number;
+  numRows: number;
+  colCost: Float64Array;
+  colLower: Float64Array;
+  colUpper: Float64Array;
+  /** 1 integer (all integers here are binaries), 0 continuous. */
+  integrality: Int32Array;
+  rowLower: Float64Array;
+  rowUpper: Float64Array;
+  starts: Int32Array;
+  indices: Int32Array;
+  values: Float64Array;
+}
+
+/** What a row or column stands for, so an infeasible subsystem can be told in the spec's words. */
+export enum RowKind {
+  Balance = 1,
+  UnitMinStable,
+  UnitMaxPower,
+  UnitStart,
+  UnitMinUp,
+  UnitMinDown,
+  StorageSoc,
+  StorageChargeExclusive,
+  StorageDischargeExclusive,
+  GridImportExclusive,
+  GridExportExclusive,
+}
+
+export enum ColKind {
+  Supply = 1,
+  Import,
+  Export,
+  Unserved,
+  GridBinary,
+  UnitOn,
+  UnitStart,
+  UnitPower,
+  StorageCharge,
+  StorageDischarge,
+  StorageSoc,
+  StorageBinary,
+}
+
+/** Per row and per column: kind, local step and the index of the unit or storage (−1 for none). */
+export interface ModelTags {
+  rowKind: Uint8Array;
+  rowStep: Int32Array;
+  rowEntity: Int16Array;
+  colKind: Uint8Array;
+  colStep: Int32Array;
+  colEntity: Int16Array;
+}

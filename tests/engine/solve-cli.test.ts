@@ -1,0 +1,71 @@
+import { spawnSync } from 'node:child_process';
+import path from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+const root = path.resolve(import.meta.dirname, '../..');
+const tsx = path.join(root, 'node_modules/.bin/tsx');
+const reference = (file: string) => `/work/shared/reference-cases/${file}`;
+
+function solve(args: string[], input?: string) {
+  const r = spawnSync(tsx, ['api/src/cli/solve.ts', ...args], { cwd: root, input, encoding: 'utf8', timeout: 60_000 });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+describe('solve CLI', () => {
+  it('prints the result and exits 0 (sparse-set-gap: optimum 780 by the reference derivation)', () => {
+    const r = solve([reference('sparse-set-gap.json')]);
+    expect(r.code).toBe(0);
+    const result = JSON.parse(r.stdout);
+    expect(result).toMatchObject({ status: 'succeeded', outcome: 'optimal', model: { mode: 'monolithic' } });
+    expect(result.objective.value).toBeCloseTo(780, 6);
+  });
+
+  it('reads stdin, honours --mode and --no-reductions', () => {
+    const spec = JSON.stringify({
+      horizon: { start: '2027-01-01T00:00:00Z', stepMinutes: 60, steps: 3 },
+      supply: { availableKw: [1, 2, 3] },
+      units: [{ id: 'u', kind: 'flexible-load', ratingKw: 2, valuePerKwh: 1 }],
+    });
+    const r = solve(['-', '--mode', 'rolling', '--no-reductions'], spec);
+    expect(r.code).toBe(0);
+    const result = JSON.parse(r.stdout);
+    expect(result.model.mode).toBe('rolling');
+    expect(result.model.reductions).toEqual({ sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false });
+    // Hand check: the load takes min(supply, 2 kW) at value 1: 1 + 2 + 2 = 5.
+    expect(result.objective.value).toBeCloseTo(5, 9);
+  });
+
+  it('prints the schedule as CSV with --csv', () => {
+    const r = solve([reference('battery-arbitrage.json'), '--csv']);
+    expect(r.code).toBe(0);
+    const lines = r.stdout.trim().split('\n');
+    expect(lines[0]).toBe('timestamp,step,supply_used_kw,curtailed_kw,unserved_kw,import_kw,export_kw,b_charge_kw,b_discharge_kw,b_soc_kwh');
+    expect(lines).toHaveLength(5);
+    expect(lines[1].startsWith('2027-01-01T00:00:00Z,0,')).toBe(true);
+  });
+
+  it('exits 0 for an infeasible spec: an outcome, not an error', () => {
+    const spec = JSON.stringify({
+      horizon: { start: '2027-01-01T00:00:00Z', stepMinutes: 60, steps: 2 },
+      supply: { availableKw: [0, 0] },
+      siteLoad: { kw: [5, 5] },
+    });
+    const r = solve(['-'], spec);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).outcome).toBe('infeasible');
+  });
+
+  it('exits 2 with problem+json on stderr for an invalid spec', () => {
+    const r = solve(['-'], JSON.stringify({ horizon: { start: 'x', stepMinutes: 60, steps: 2 }, supply: { availableKw: [0] } }));
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    const problem = JSON.parse(r.stderr);
+    expect(problem).toMatchObject({ type: '/problems/validation-failed', status: 400 });
+    expect(problem.errors.map((e: { pointer: string }) => e.pointer)).toContain('/horizon/start');
+  });
+
+  it('exits 2 for input that is not JSON and for bad options', () => {
+    expect(solve(['-'], '{nope').code).toBe(2);
+    expect(solve([reference('sparse-set-gap.json'), '--mode', 'sideways']).code).toBe(2);
+  });
+});
