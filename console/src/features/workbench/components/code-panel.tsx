@@ -1,0 +1,50 @@
+import { useMemo, useState } from 'react';
+import { CopyButton } from '@/components/copy-button';
+import { SelectField } from '@/components/field';
+import { usePermission } from '@/lib/session';
+import { useKeyChoices } from '../api';
+import { curlSnippet, fetchSnippet, keyVariableName } from '../lib/code-snippets';
+
+/** The same Solve request the button sends, as code an integrator can paste into a script. */
+export function CodePanel({ spec }: { spec: unknown }) {
+  const canListKeys = usePermission('keys.read');
+  const keys = useKeyChoices(canListKeys);
+  const live = keys.data?.items.filter((k) => !k.revokedAt) ?? [];
+  const [keyId, setKeyId] = useState('');
+  const [lang, setLang] = useState<'curl' | 'ts'>('curl');
+  const picked = live.find((k) => k.id === keyId);
+  const keyVariable = keyVariableName(picked?.name);
+  const code = useMemo(() => {
+    const input = { origin: window.location.origin, spec, keyVariable };
+    return lang === 'curl' ? curlSnippet(input) : fetchSnippet(input);
+  }, [spec, keyVariable, lang]);
+  return (
+    <div className="space-y-2">
+      <div className="flex flex-wrap items-end gap-2">
+        <SelectField label="API key" className="w-56" value={keyId} onChange={(e) => setKeyId(e.target.value)}>
+          <option value="">Any key (GRIDWRIGHT_KEY)</option>
+          {live.map((k) => (
+            <option key={k.id} value={k.id}>
+              {k.name} · {k.prefix}…
+            </option>
+          ))}
+        </SelectField>
+        <div role="radiogroup" aria-label="Language" className="flex rounded-md border border-ash-300 text-xs">
+          {(['curl', 'ts'] as const).map((l) => (
+            <button key={l} type="button" role="radio" aria-checked={lang === l} onClick={() => setLang(l)} className={`px-2.5 py-1.5 ${lang === l ? 'bg-ash-900 text-white' : 'text-ash-700'}`}>
+              {l === 'curl' ? 'curl' : 'TypeScript fetch'}
+            </button>
+          ))}
+        </div>
+        <CopyButton text={code} />
+      </div>
+      <p className="text-xs text-ash-500">
+        Secrets are shown once, when a key is created, so the code reads it from <code className="font-mono">{keyVariable}</code>
+        {picked && <> — set it to the secret of <strong>{picked.name}</strong> ({picked.prefix}…)</>}.
+      </p>
+      <pre className="max-h-80 overflow-auto rounded-md bg-ash-900 p-3 font-mono text-[11.5px] leading-relaxed text-ash-100" aria-label="Code">
+        {code}
+      </pre>
+    </div>
+  );
+}

@@ -1,0 +1,26 @@
+export interface FieldError {
+  pointer: string;
+  message: string;
+}
+
+/** An RFC 9457 problem returned by the API, kept whole so screens can show its detail and field errors. */
+export class ApiProblem extends Error {
+  readonly status: number;
+  readonly title: string;
+  readonly detail: string;
+  readonly type: string;
+  readonly errors: FieldError[];
+
+  constructor(body: { status?: number; title?: string; detail?: string; type?: string; errors?: FieldError[] }, status: number) {
+    super(body.detail ?? body.title ?? `Request failed (${status})`);
+    this.status = body.status ?? status;
+    this.title = body.title ?? 'Request failed';
+    this.detail = body.detail ?? '';
+    this.type = body.type ?? 'about:blank';
+    this.errors = Array.isArray(body.errors) ? body.errors : [];
+  }
+}
+
+export function isProblem(err: unknown): err is ApiProblem {
+  return err instanceof ApiProblem;
+}
