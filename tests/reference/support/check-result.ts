@@ -1,0 +1,54 @@
+/** Assertions every engine result in the reference checks must satisfy. */
+import { expect } from 'vitest';
+import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import type { RunResult, Schedule } from '@gridwright/shared/run-result';
+import { verifySchedule } from '../../../api/src/engine/verify-schedule';
+import { closeRel } from './specs';
+
+/** A succeeded, verified result: its schedule passes the verifier, its objective is the verifier's. */
+export function expectVerifiedOptimum(spec: ResolvedSiteSpec, result: RunResult): number {
+  expect(result.status).toBe('succeeded');
+  expect(result.outcome).toBe('optimal');
+  expect(result.schedule).not.toBeNull();
+  const check = verifySchedule(spec, result.schedule!);
+  expect(check.violations).toEqual([]);
+  const value = result.objective.value ?? Number.NaN;
+  expect(closeRel(check.objective, value), `verifier ${check.objective} vs reported ${value}`).toBe(true);
+  return value;
+}
+
+/**
+ * Steps where a battery charges and discharges, or the grid imports and exports, at once.
+ * Anything above 1e-9 of the larger limit counts: the engine promises cleaned values.
+ */
+export function simultaneousUse(spec: ResolvedSiteSpec, schedule: Schedule): string[] {
+  const found: string[] = [];
+  const gridEps = 1e-9 * Math.max(1, spec.grid.importLimitKw, spec.grid.exportLimitKw);
+  schedule.grid.importKw.forEach((imp, t) => {
+    if (imp > gridEps && schedule.grid.exportKw[t] > gridEps) found.push(`grid step ${t}: import ${imp}, export ${schedule.grid.exportKw[t]}`);
+  });
+  for (const st of spec.storage) {
+    const s = schedule.storage[st.id];
+    const eps = 1e-9 * Math.max(1, st.maxChargeKw, st.maxDischargeKw);
+    s.chargeKw.forEach((c, t) => {
+      if (c > eps && s.dischargeKw[t] > eps) found.push(`${st.id} step ${t}: charge ${c}, discharge ${s.dischargeKw[t]}`);
+    });
+  }
+  return found;
+}
+
+/**
+ * Same optimum up to the MIP gap of both solves (1e-9 in these specs) plus solver round-off:
+ * 1e-6 relative to max(1, |a|, |b|).
+ */
+export function sameOptimum(a: number, b: number): boolean {
+  return closeRel(a, b, 1e-6);
+}
+
+/** fast-check settings: a fixed seed in CI (override with FC_SEED to explore), small runs. */
+export function propertyRuns(numRuns: number): { numRuns: number; seed: number } {
+  return { numRuns: Number(process.env.FC_RUNS ?? numRuns), seed: Number(process.env.FC_SEED ?? 20270601) };
+}
+
+/** A generous per-test limit for the property runs: dozens of solves on a busy 2-core machine. */
+export const PROPERTY_TIMEOUT_MS = 240_000;
