@@ -13,6 +13,19 @@ import type { AppContext } from './context';
 import { databaseReadiness } from './db/data-source';
 import { errorHandler, notFoundHandler } from './lib/error-handler';
 import { problemType } from './lib/problem';
+import { adminTenantsRouter } from './routes/admin-tenants';
+import { apiKeysRouter } from './routes/api-keys';
+import { auditRouter } from './routes/audit';
+import { authRouter } from './routes/auth';
+import { membersRouter } from './routes/members';
+import { outboxRouter } from './routes/outbox';
+import { tenantRouter } from './routes/tenant';
+import { usageRouter } from './routes/usage';
+import { exportProfilesRouter } from './routes/export-profiles';
+import { runsRouter } from './routes/runs';
+import { seriesRouter } from './routes/series';
+import { specsRouter } from './routes/specs';
+import { webhookEndpointsRouter } from './routes/webhook-endpoints';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 export const openapiPath = path.resolve(here, '../../openapi/openapi.yaml');
@@ -101,6 +114,19 @@ export function buildApp(ctx: AppContext): Express {
   );
 
   // Resource routers are mounted here, one per resource (see DEVELOPERS.md).
+  app.use(authRouter(ctx));
+  app.use(membersRouter(ctx));
+  app.use(apiKeysRouter(ctx));
+  app.use(tenantRouter(ctx));
+  app.use(usageRouter(ctx));
+  app.use(auditRouter(ctx));
+  app.use(adminTenantsRouter(ctx));
+  app.use(outboxRouter(ctx));
+  app.use(runsRouter(ctx));
+  app.use(specsRouter(ctx));
+  app.use(seriesRouter(ctx));
+  app.use(webhookEndpointsRouter(ctx));
+  app.use(exportProfilesRouter(ctx));
 
   if (existsSync(path.join(consoleDist, 'index.html'))) {
     app.use(express.static(consoleDist, { index: false, maxAge: '1h' }));

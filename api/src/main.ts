@@ -1,20 +1,31 @@
 // `npm start`: migrate, seed the demo, then serve the API + console and run a worker in this process.
 import { createContext } from './bootstrap';
 import { startServer } from './server';
+import { seedDemoRuns } from './services/demo-runs';
+import { describeDemoSeed, seedDemo } from './services/demo-seed';
+import { stopQueue } from './services/run-queue';
+import { startWorkers } from './services/workers';
 
 const ctx = await createContext();
 await ctx.db.runMigrations({ transaction: 'each' });
+const demo = ctx.config.seedDemo && !ctx.config.production ? await seedDemo(ctx, [(c, seed) => seedDemoRuns(c, seed.tenantId).then(() => undefined)]) : null;
 
 const server = await startServer(ctx);
+const workers = await startWorkers(ctx, { concurrency: ctx.config.workerConcurrency });
 const url = `http://${ctx.config.host}:${ctx.config.port}`;
 ctx.log.info({ url }, 'Gridwright is serving');
 process.stderr.write(`\n  Gridwright  ${url}\n  API docs    ${url}/docs\n  Readiness   ${url}/readyz\n\n`);
+if (ctx.mailer.localServer) process.stderr.write(`  E-mail      loopback SMTP on 127.0.0.1:${ctx.mailer.localServer.port}; messages in the console's outbox\n\n`);
+if (demo) process.stderr.write(describeDemoSeed(demo, url) + '\n');
 
 let stopping = false;
 async function shutdown() {
   if (stopping) return;
   stopping = true;
   await new Promise<void>((resolve) => server.close(() => resolve()));
+  await workers.stop();
+  await stopQueue(ctx);
+  await ctx.mailer.close();
   await ctx.db.destroy();
   process.exit(0);
 }

@@ -11,6 +11,14 @@ export const MAX_STORAGE = 20;
 export const STEP_MINUTES = [5, 10, 15, 30, 60] as const;
 export const MAX_TIME_LIMIT_SECONDS = 3_600;
 export const DEFAULT_TIME_LIMIT_SECONDS = 60;
+
+/**
+ * The time limit when a spec names none: 60 s, growing with the horizon so a rolling year
+ * (35 040 steps ⇒ 584 s) has about 1.6 s per daily window even on a busy machine.
+ */
+export function defaultTimeLimitSeconds(steps: number): number {
+  return Math.min(MAX_TIME_LIMIT_SECONDS, Math.max(DEFAULT_TIME_LIMIT_SECONDS, Math.ceil(steps / 60)));
+}
 export const DEFAULT_MIP_GAP = 1e-4;
 /** Validation stops listing errors after this many, so a bad 35 000-value array stays readable. */
 const MAX_REPORTED_ERRORS = 100;
@@ -377,7 +385,7 @@ export function resolveDefaults(spec: SiteSpec, availableKw?: number[]): Resolve
     solver: {
       mode: spec.solver?.mode ?? 'auto',
       window: { windowSteps, commitSteps },
-      timeLimitSeconds: spec.solver?.timeLimitSeconds ?? DEFAULT_TIME_LIMIT_SECONDS,
+      timeLimitSeconds: spec.solver?.timeLimitSeconds ?? defaultTimeLimitSeconds(spec.horizon.steps),
       mipGap: spec.solver?.mipGap ?? DEFAULT_MIP_GAP,
       reductions: {
         sparseSets: r?.sparseSets ?? true,

@@ -6,6 +6,7 @@ import { buildApp } from '../../api/src/app';
 import { createContext } from '../../api/src/bootstrap';
 import { loadConfig } from '../../api/src/config';
 import type { AppContext } from '../../api/src/context';
+import { stopQueue } from '../../api/src/services/run-queue';
 import { createTestDatabase } from './database';
 
 export interface TestApp {
@@ -35,6 +36,8 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     app,
     databaseUrl,
     async close() {
+      await stopQueue(ctx, { graceful: false });
+      await ctx.mailer.close();
       await ctx.db.destroy();
       await database?.drop();
     },

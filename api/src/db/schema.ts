@@ -1,7 +1,36 @@
 // The entity classes and migrations TypeORM knows about. Listed explicitly (no globs) so that tsx,
 // Vitest and the CLIs all load the same class objects.
+import { ApiKey } from './entities/api-key';
+import { AuditEvent } from './entities/audit-event';
+import { Invitation } from './entities/invitation';
+import { OutboxMessage } from './entities/outbox-message';
+import { PasswordReset } from './entities/password-reset';
+import { Plan } from './entities/plan';
+import { RunUsage } from './entities/run-usage';
+import { Session } from './entities/session';
+import { Tenant } from './entities/tenant';
+import { User } from './entities/user';
+import { Accounts1780000000000 } from './migrations/1780000000000-accounts';
+import { ExportProfile } from './entities/export-profile';
+import { IdempotencyKey } from './entities/idempotency-key';
+import { Run } from './entities/run';
+import { Series } from './entities/series';
+import { WebhookDelivery } from './entities/webhook-delivery';
+import { WebhookEndpoint } from './entities/webhook-endpoint';
+import { Runs1780000100000 } from './migrations/1780000100000-runs';
+import { QueueSchema1780000110000 } from './migrations/1780000110000-queue-schema';
+import { Series1780000300000 } from './migrations/1780000300000-series';
+import { Webhooks1780000310000 } from './migrations/1780000310000-webhooks';
+import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-profiles';
+
 type Constructor = new (...args: any[]) => unknown;
 
-export const entities: Constructor[] = [];
+export const entities: Constructor[] = [
+  Plan, Tenant, User, Session, ApiKey, Invitation, PasswordReset, AuditEvent, OutboxMessage, RunUsage,
+  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile,
+];
 
-export const migrations: Constructor[] = [];
+export const migrations: Constructor[] = [
+  Accounts1780000000000,
+  Runs1780000100000, QueueSchema1780000110000, Series1780000300000, Webhooks1780000310000, ExportProfiles1780000320000,
+];

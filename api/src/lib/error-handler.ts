@@ -1,4 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { toJsonPointer } from './json-pointer';
 import type { Logger } from './logger';
 import { HttpProblem, problemType, type ProblemBody, type ProblemFieldError } from './problem';
 
@@ -11,6 +12,21 @@ export function validatorPathToPointer(path: string | undefined): string {
     ? path
     : '/' + path.replace(/^\./, '').replace(/\[(\d+)\]/g, '.$1').split('.').join('/');
   return normalised.replace(/^\/body(?=\/|$)/, '');
+}
+
+/**
+ * For unknown properties the validator appends the client's property name to the (escaped) instance
+ * path as it is, so `{"~": 0}` gave `/~`. Find the name in the body and escape it per RFC 6901.
+ */
+export function escapeUnknownProperty(pointer: string, body: unknown): string {
+  const tokens = pointer.split('/').slice(1);
+  let node: unknown = body;
+  for (let i = 0; i < tokens.length && node && typeof node === 'object'; i++) {
+    const rest = tokens.slice(i).join('/');
+    if (Object.prototype.hasOwnProperty.call(node, rest)) return `${tokens.slice(0, i).map((t) => `/${t}`).join('')}${toJsonPointer([rest])}`;
+    node = (node as Record<string, unknown>)[tokens[i].replace(/~1/g, '/').replace(/~0/g, '~')];
+  }
+  return pointer;
 }
 
 function send(res: Parameters<ErrorRequestHandler>[2], body: ProblemBody, headers: Record<string, string> = {}) {
@@ -40,7 +56,8 @@ export function isDatabaseUnavailable(err: any): boolean {
 export function errorHandler(log: Logger): ErrorRequestHandler {
   return (err, req, res, _next) => {
     if (res.headersSent) return;
-    if (err instanceof HttpProblem) return send(res, err.toBody(req.originalUrl), err.headers);
+    // The RFC 9457 members win over same-named extensions (an extension `status: "queued"` once made res.status throw).
+    if (err instanceof HttpProblem) return send(res, { ...err.toBody(req.originalUrl), type: err.type, title: err.title, status: err.status, detail: err.message }, err.headers);
 
     const status: number | undefined = err?.status ?? err?.statusCode;
     // body-parser
@@ -63,10 +80,11 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
     }
     // express-openapi-validator
     if (status && Array.isArray(err?.errors)) {
-      const errors: ProblemFieldError[] = err.errors.map((e: { path?: string; message?: string }) => ({
-        pointer: validatorPathToPointer(e.path),
-        message: e.message ?? 'invalid',
-      }));
+      const errors: ProblemFieldError[] = err.errors.map((e: { path?: string; message?: string; errorCode?: string }) => {
+        const pointer = validatorPathToPointer(e.path);
+        const unknownName = /^(additionalProperties|unevaluatedProperties)\./.test(e.errorCode ?? '') && e.path?.startsWith('/body');
+        return { pointer: unknownName ? escapeUnknownProperty(pointer, req.body) : pointer, message: e.message ?? 'invalid' };
+      });
       const bySlug: Record<number, [string, string]> = {
         400: ['validation-failed', 'The request is not valid'],
         404: ['not-found', 'Not found'],

@@ -1,0 +1,33 @@
+import { Column, Entity, PrimaryColumn } from 'typeorm';
+
+export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed' | 'cancelled';
+export type RunOutcome = 'optimal' | 'feasible' | 'infeasible' | 'no-solution';
+
+/** One submitted site spec and its way through the queue; the row is the truth the API reads. */
+@Entity('runs')
+export class Run {
+  @PrimaryColumn('uuid') id!: string;
+  @Column('uuid', { name: 'tenant_id' }) tenantId!: string;
+  @Column('timestamptz', { name: 'created_at' }) createdAt!: Date;
+  @Column('text') status!: RunStatus;
+  @Column('text', { nullable: true }) outcome!: RunOutcome | null;
+  @Column('text', { nullable: true }) name!: string | null;
+  @Column('jsonb') spec!: Record<string, unknown>;
+  @Column('text', { name: 'series_id', nullable: true }) seriesId!: string | null;
+  @Column('integer') steps!: number;
+  @Column('integer') units!: number;
+  @Column('double precision', { name: 'time_limit_seconds' }) timeLimitSeconds!: number;
+  @Column('uuid', { name: 'created_by_user_id', nullable: true }) createdByUserId!: string | null;
+  @Column('uuid', { name: 'created_by_api_key_id', nullable: true }) createdByApiKeyId!: string | null;
+  @Column('timestamptz', { name: 'started_at', nullable: true }) startedAt!: Date | null;
+  @Column('timestamptz', { name: 'finished_at', nullable: true }) finishedAt!: Date | null;
+  @Column('timestamptz', { name: 'cancel_requested_at', nullable: true }) cancelRequestedAt!: Date | null;
+  @Column('integer', { name: 'windows_done' }) windowsDone!: number;
+  @Column('integer', { name: 'windows_total', nullable: true }) windowsTotal!: number | null;
+  @Column('integer') attempts!: number;
+  @Column('text', { name: 'worker_id', nullable: true }) workerId!: string | null;
+  @Column('jsonb', { nullable: true }) result!: Record<string, unknown> | null;
+  @Column('jsonb', { nullable: true }) error!: { code: string; message: string } | null;
+  @Column('text', { name: 'solver_log' }) solverLog!: string;
+  @Column('double precision', { name: 'solver_seconds', nullable: true }) solverSeconds!: number | null;
+}

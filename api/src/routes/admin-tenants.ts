@@ -1,0 +1,63 @@
+import { Router } from 'express';
+import { authenticate, authorize } from '../auth/middleware';
+import type { AppContext } from '../context';
+import { auditEventView, listAuditEvents } from '../services/audit';
+import { inviteMember } from '../services/members';
+import { createTenant, getTenantOr404, listTenants, setTenantSuspended, tenantView, updateTenant } from '../services/tenants';
+import { usageReport } from '../services/usage';
+import { actorFor } from './members';
+
+export function adminTenantsRouter(ctx: AppContext): Router {
+  const r = Router();
+  const auth = authenticate(ctx);
+  const operate = authorize('tenants.operate');
+
+  r.get('/v1/admin/tenants', auth, operate, async (req, res) => {
+    const page = await listTenants(ctx, { cursor: req.query.cursor as string | undefined, limit: req.query.limit as number | undefined, q: req.query.q as string | undefined });
+    res.json({ items: await Promise.all(page.items.map((t) => tenantView(ctx.db.manager, t))), nextCursor: page.nextCursor });
+  });
+
+  r.post('/v1/admin/tenants', auth, operate, async (req, res) => {
+    const actor = await actorFor(ctx, req);
+    const tenant = await createTenant(ctx, { slug: req.body.slug, name: req.body.name, planId: req.body.planId }, actor);
+    if (req.body.ownerEmail) {
+      await inviteMember(ctx, { tenantId: tenant.id, email: req.body.ownerEmail, role: 'owner', invitedBy: req.principal!.userId ?? null }, actor);
+    }
+    res.status(201).json(await tenantView(ctx.db.manager, tenant));
+  });
+
+  r.get('/v1/admin/tenants/:id', auth, operate, async (req, res) => {
+    res.json(await tenantView(ctx.db.manager, await getTenantOr404(ctx.db.manager, req.params.id as string)));
+  });
+
+  r.patch('/v1/admin/tenants/:id', auth, operate, async (req, res) => {
+    const tenant = await updateTenant(ctx, req.params.id as string, req.body, await actorFor(ctx, req));
+    res.json(await tenantView(ctx.db.manager, tenant));
+  });
+
+  r.post('/v1/admin/tenants/:id/suspend', auth, operate, async (req, res) => {
+    const tenant = await setTenantSuspended(ctx, req.params.id as string, true, req.body?.reason ?? null, await actorFor(ctx, req));
+    res.json(await tenantView(ctx.db.manager, tenant));
+  });
+
+  r.post('/v1/admin/tenants/:id/resume', auth, operate, async (req, res) => {
+    const tenant = await setTenantSuspended(ctx, req.params.id as string, false, null, await actorFor(ctx, req));
+    res.json(await tenantView(ctx.db.manager, tenant));
+  });
+
+  r.get('/v1/admin/tenants/:id/usage', auth, operate, async (req, res) => {
+    res.json(await usageReport(ctx, req.params.id as string));
+  });
+
+  r.get('/v1/admin/audit-events', auth, operate, async (req, res) => {
+    const page = await listAuditEvents(ctx, {
+      tenantId: (req.query.tenantId as string | undefined) ?? null,
+      action: req.query.action as string | undefined,
+      cursor: req.query.cursor as string | undefined,
+      limit: req.query.limit as number | undefined,
+    });
+    res.json({ items: page.items.map(auditEventView), nextCursor: page.nextCursor });
+  });
+
+  return r;
+}

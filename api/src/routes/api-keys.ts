@@ -1,0 +1,44 @@
+import { Router } from 'express';
+import { authenticate, authorize } from '../auth/middleware';
+import type { AppContext } from '../context';
+import { apiKeyView, createApiKey, getApiKey, listApiKeys, revokeApiKey } from '../services/api-keys';
+import { actorFor } from './members';
+
+export function apiKeysRouter(ctx: AppContext): Router {
+  const r = Router();
+  const auth = authenticate(ctx);
+
+  r.get('/v1/api-keys', auth, authorize('keys.read'), async (req, res) => {
+    const page = await listApiKeys(ctx, req.principal!.tenantId, {
+      cursor: req.query.cursor as string | undefined,
+      limit: req.query.limit as number | undefined,
+      includeRevoked: req.query.includeRevoked as boolean | undefined,
+    });
+    res.json({ items: page.items.map(apiKeyView), nextCursor: page.nextCursor });
+  });
+
+  r.post('/v1/api-keys', auth, authorize('keys.manage'), async (req, res) => {
+    const { key, apiKey } = await createApiKey(
+      ctx,
+      {
+        tenantId: req.principal!.tenantId,
+        name: req.body.name,
+        scopes: req.body.scopes,
+        expiresAt: req.body.expiresAt ? new Date(req.body.expiresAt) : null,
+        createdBy: req.principal!.userId ?? null,
+      },
+      await actorFor(ctx, req),
+    );
+    res.status(201).setHeader('Cache-Control', 'no-store').json({ key, apiKey: apiKeyView(apiKey) });
+  });
+
+  r.get('/v1/api-keys/:id', auth, authorize('keys.read'), async (req, res) => {
+    res.json(apiKeyView(await getApiKey(ctx, req.principal!.tenantId, req.params.id as string)));
+  });
+
+  r.post('/v1/api-keys/:id/revoke', auth, authorize('keys.manage'), async (req, res) => {
+    res.json(apiKeyView(await revokeApiKey(ctx, req.principal!.tenantId, req.params.id as string, await actorFor(ctx, req))));
+  });
+
+  return r;
+}

@@ -1,0 +1,25 @@
+import { Router } from 'express';
+import { authenticate, authorize } from '../auth/middleware';
+import type { AppContext } from '../context';
+import { getTenantOr404, listPlans, planView, tenantView, updateTenant } from '../services/tenants';
+import { actorFor } from './members';
+
+export function tenantRouter(ctx: AppContext): Router {
+  const r = Router();
+  const auth = authenticate(ctx);
+
+  r.get('/v1/plans', auth, authorize('tenant.read'), async (_req, res) => {
+    res.json({ items: (await listPlans(ctx)).map(planView) });
+  });
+
+  r.get('/v1/tenant', auth, authorize('tenant.read'), async (req, res) => {
+    res.json(await tenantView(ctx.db.manager, await getTenantOr404(ctx.db.manager, req.principal!.tenantId)));
+  });
+
+  r.put('/v1/tenant/plan', auth, authorize('plan.manage'), async (req, res) => {
+    const tenant = await updateTenant(ctx, req.principal!.tenantId, { planId: req.body.planId }, await actorFor(ctx, req));
+    res.json(await tenantView(ctx.db.manager, tenant));
+  });
+
+  return r;
+}

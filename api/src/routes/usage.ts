@@ -1,0 +1,12 @@
+import { Router } from 'express';
+import { authenticate, authorize } from '../auth/middleware';
+import type { AppContext } from '../context';
+import { usageReport } from '../services/usage';
+
+export function usageRouter(ctx: AppContext): Router {
+  const r = Router();
+  r.get('/v1/usage', authenticate(ctx), authorize('usage.read'), async (req, res) => {
+    res.json(await usageReport(ctx, req.principal!.tenantId));
+  });
+  return r;
+}

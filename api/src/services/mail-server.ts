@@ -1,0 +1,72 @@
+// The loopback SMTP server `npm start` and the tests run when SMTP_URL is unset: every message it
+// accepts lands in the outbox table, where operators read it.
+import type { AddressInfo } from 'node:net';
+import { SMTPServer } from 'smtp-server';
+import type { DataSource } from 'typeorm';
+import { OutboxMessage } from '../db/entities/outbox-message';
+import type { Logger } from '../lib/logger';
+import { decodeEncodedWords, parseMimeMessage } from '../lib/parse-mime-message';
+
+export const KIND_HEADER = 'x-gridwright-kind';
+export const TENANT_HEADER = 'x-gridwright-tenant';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
+
+export interface LocalSmtpServer {
+  port: number;
+  close(): Promise<void>;
+}
+
+export async function storeReceivedMessage(db: DataSource, envelope: { from: string; to: string[] }, raw: string): Promise<void> {
+  const parsed = parseMimeMessage(raw);
+  const tenant = parsed.headers.get(TENANT_HEADER) ?? '';
+  await db.getRepository(OutboxMessage).insert({
+    receivedAt: new Date(),
+    tenantId: UUID.test(tenant) ? tenant : null,
+    kind: parsed.headers.get(KIND_HEADER) ?? 'other',
+    mailFrom: envelope.from,
+    rcptTo: envelope.to,
+    subject: decodeEncodedWords(parsed.headers.get('subject') ?? ''),
+    textBody: parsed.text,
+    htmlBody: parsed.html,
+    messageId: parsed.headers.get('message-id') ?? null,
+    raw,
+  });
+}
+
+export function startLocalSmtpServer(db: DataSource, log: Logger, port = 0): Promise<LocalSmtpServer> {
+  const server = new SMTPServer({
+    authOptional: true,
+    disabledCommands: ['STARTTLS', 'AUTH'],
+    size: 5 * 1024 * 1024,
+    logger: false,
+    onData(stream, session, callback) {
+      const chunks: Buffer[] = [];
+      stream.on('data', (c: Buffer) => chunks.push(c));
+      stream.on('end', () => {
+        const envelope = {
+          from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '',
+          to: session.envelope.rcptTo.map((r) => r.address),
+        };
+        storeReceivedMessage(db, envelope, Buffer.concat(chunks).toString('utf8')).then(
+          () => callback(),
+          (err: Error) => {
+            log.error({ err }, 'outbox: could not store a message');
+            callback(Object.assign(new Error('Temporary failure storing the message'), { responseCode: 451 }));
+          },
+        );
+      });
+    },
+  });
+  return new Promise((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(port, '127.0.0.1', () => {
+      server.off('error', reject);
+      server.on('error', (err) => log.error({ err }, 'local SMTP server error'));
+      resolve({
+        port: (server.server.address() as AddressInfo).port,
+        close: () => new Promise<void>((r) => server.close(() => r())),
+      });
+    });
+  });
+}

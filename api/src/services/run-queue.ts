@@ -1,0 +1,96 @@
+import PgBoss from 'pg-boss';
+import type { EntityManager } from 'typeorm';
+import type { Config } from '../config';
+import type { AppContext } from '../context';
+import type { Logger } from '../lib/logger';
+
+export const RUN_QUEUE = 'run-solve';
+/** Runs whose worker crashed more often than the retry limit end up here and are marked failed. */
+export const RUN_DEAD_QUEUE = 'run-solve-dead';
+export const WEBHOOK_QUEUE = 'webhook-delivery';
+export const WEBHOOK_DEAD_QUEUE = 'webhook-delivery-dead';
+
+export interface RunJobData {
+  runId: string;
+}
+
+export interface WebhookJobData {
+  deliveryId: string;
+}
+
+export function createBoss(config: Config, log: Logger): PgBoss {
+  const boss = new PgBoss({
+    connectionString: config.databaseUrl,
+    schema: 'pgboss',
+    max: 4,
+    application_name: 'gridwright-queue',
+    maintenanceIntervalSeconds: config.queueMaintenanceSeconds,
+  });
+  boss.on('error', (err) => log.warn({ err }, 'queue error'));
+  return boss;
+}
+
+const ready = new WeakMap<PgBoss, Promise<PgBoss>>();
+
+/** Starts pg-boss once per process and makes sure every queue exists (createQueue before send). */
+export function startQueue(ctx: Pick<AppContext, 'boss' | 'config'>): Promise<PgBoss> {
+  let started = ready.get(ctx.boss);
+  if (!started) {
+    started = (async () => {
+      await ctx.boss.start();
+      await ctx.boss.createQueue(RUN_DEAD_QUEUE);
+      await ctx.boss.createQueue(RUN_QUEUE, { name: RUN_QUEUE, deadLetter: RUN_DEAD_QUEUE, retryLimit: ctx.config.runRetryLimit });
+      await ctx.boss.createQueue(WEBHOOK_DEAD_QUEUE);
+      await ctx.boss.createQueue(WEBHOOK_QUEUE, { name: WEBHOOK_QUEUE, deadLetter: WEBHOOK_DEAD_QUEUE });
+      return ctx.boss;
+    })();
+    started.catch(() => ready.delete(ctx.boss));
+    ready.set(ctx.boss, started);
+  }
+  return started;
+}
+
+export async function stopQueue(ctx: Pick<AppContext, 'boss'>, opts: { graceful?: boolean } = {}): Promise<void> {
+  if (!ready.has(ctx.boss)) return;
+  ready.delete(ctx.boss);
+  await ctx.boss.stop({ graceful: opts.graceful ?? true, wait: true, timeout: 5_000 });
+}
+
+/** pg-boss runs its INSERT on our transaction, so a run and its job are committed together or not at all. */
+function onTransaction(manager: EntityManager) {
+  return { executeSql: async (text: string, values: unknown[]) => ({ rows: await manager.query(text, values) }) };
+}
+
+export async function enqueueRun(
+  ctx: Pick<AppContext, 'boss' | 'config'>,
+  manager: EntityManager,
+  run: { id: string; timeLimitSeconds: number },
+): Promise<void> {
+  const boss = await startQueue(ctx);
+  const id = await boss.send(RUN_QUEUE, { runId: run.id } satisfies RunJobData, {
+    db: onTransaction(manager),
+    retryLimit: ctx.config.runRetryLimit,
+    retryDelay: 0,
+    deadLetter: RUN_DEAD_QUEUE,
+    // Longer than the solver may legitimately take, so only a dead worker's job expires and is retried.
+    expireInSeconds: Math.ceil(run.timeLimitSeconds + ctx.config.runExpiryGraceSeconds),
+  });
+  if (!id) throw new Error(`the queue refused run ${run.id}`);
+}
+
+export async function enqueueWebhookDelivery(
+  ctx: Pick<AppContext, 'boss' | 'config'>,
+  manager: EntityManager | null,
+  deliveryId: string,
+): Promise<void> {
+  const boss = await startQueue(ctx);
+  const id = await boss.send(WEBHOOK_QUEUE, { deliveryId } satisfies WebhookJobData, {
+    ...(manager ? { db: onTransaction(manager) } : {}),
+    retryLimit: ctx.config.webhookRetryLimit,
+    retryDelay: ctx.config.webhookRetryDelaySeconds,
+    retryBackoff: true,
+    deadLetter: WEBHOOK_DEAD_QUEUE,
+    expireInSeconds: Math.ceil(ctx.config.webhookTimeoutMs / 1000) + 30,
+  });
+  if (!id) throw new Error(`the queue refused webhook delivery ${deliveryId}`);
+}

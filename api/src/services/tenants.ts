@@ -1,0 +1,140 @@
+import type { EntityManager } from 'typeorm';
+import type { AppContext } from '../context';
+import { Plan } from '../db/entities/plan';
+import { Tenant, type LimitOverrides } from '../db/entities/tenant';
+import { paginateNewestFirst } from '../lib/pagination';
+import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import { recordAudit, type AuditActor } from './audit';
+
+export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns'] as const;
+export type LimitName = (typeof LIMIT_NAMES)[number];
+export type TenantLimits = Record<LimitName, number>;
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export async function findTenant(manager: EntityManager, id: string): Promise<Tenant | null> {
+  return UUID.test(id) ? manager.findOneBy(Tenant, { id }) : null;
+}
+
+export async function getTenantOr404(manager: EntityManager, id: string): Promise<Tenant> {
+  const t = await findTenant(manager, id);
+  if (!t) throw notFound(`Tenant ${id}`);
+  return t;
+}
+
+export async function getTenantBySlug(manager: EntityManager, slug: string): Promise<Tenant> {
+  const t = await manager.findOneBy(Tenant, { slug });
+  if (!t) throw notFound(`Tenant "${slug}"`);
+  return t;
+}
+
+export async function getPlanOrFail(manager: EntityManager, planId: string, pointer = '/planId'): Promise<Plan> {
+  const plan = await manager.findOneBy(Plan, { id: planId });
+  if (!plan) throw validationProblem([{ pointer, message: `no plan "${planId}"` }]);
+  return plan;
+}
+
+export function listPlans(ctx: AppContext): Promise<Plan[]> {
+  return ctx.db.getRepository(Plan).find({ order: { sortOrder: 'ASC' } });
+}
+
+export function effectiveLimits(plan: Plan, overrides: LimitOverrides): TenantLimits {
+  const limits = {} as TenantLimits;
+  for (const name of LIMIT_NAMES) limits[name] = overrides[name] ?? plan[name];
+  return limits;
+}
+
+export async function createTenant(
+  ctx: AppContext,
+  input: { slug: string; name?: string; planId?: string },
+  actor: AuditActor = {},
+): Promise<Tenant> {
+  return ctx.db.transaction(async (m) => {
+    const plan = await getPlanOrFail(m, input.planId ?? ctx.config.defaultPlan);
+    if (await m.findOneBy(Tenant, { slug: input.slug })) {
+      throw new HttpProblem({
+        status: 409,
+        slug: 'conflict',
+        title: 'Already exists',
+        detail: `A tenant with slug "${input.slug}" already exists.`,
+        errors: [{ pointer: '/slug', message: 'already taken' }],
+      });
+    }
+    const tenant = m.create(Tenant, { slug: input.slug, name: input.name ?? input.slug, planId: plan.id, limitOverrides: {} });
+    await m.save(tenant);
+    await recordAudit(m, { tenantId: tenant.id, action: 'tenant-created', actor, target: tenant.slug, details: { planId: plan.id } });
+    return tenant;
+  });
+}
+
+export interface TenantChanges {
+  name?: string;
+  planId?: string;
+  limitOverrides?: Partial<Record<LimitName, number | null>>;
+}
+
+export async function updateTenant(ctx: AppContext, id: string, changes: TenantChanges, actor: AuditActor): Promise<Tenant> {
+  return ctx.db.transaction(async (m) => {
+    const tenant = await getTenantOr404(m, id);
+    await m.query('SELECT 1 FROM tenants WHERE id = $1 FOR UPDATE', [id]);
+    if (changes.name !== undefined && changes.name !== tenant.name) {
+      await recordAudit(m, { tenantId: id, action: 'tenant-renamed', actor, target: tenant.slug, details: { from: tenant.name, to: changes.name } });
+      tenant.name = changes.name;
+    }
+    if (changes.planId !== undefined && changes.planId !== tenant.planId) {
+      await getPlanOrFail(m, changes.planId);
+      await recordAudit(m, { tenantId: id, action: 'plan-changed', actor, target: tenant.slug, details: { from: tenant.planId, to: changes.planId } });
+      tenant.planId = changes.planId;
+    }
+    if (changes.limitOverrides) {
+      const next: LimitOverrides = { ...tenant.limitOverrides };
+      for (const [name, value] of Object.entries(changes.limitOverrides) as [LimitName, number | null][]) {
+        if (value === null) delete next[name];
+        else next[name] = value;
+      }
+      await recordAudit(m, { tenantId: id, action: 'limits-changed', actor, target: tenant.slug, details: { from: tenant.limitOverrides, to: next } });
+      tenant.limitOverrides = next;
+    }
+    return m.save(tenant);
+  });
+}
+
+export async function setTenantSuspended(ctx: AppContext, id: string, suspend: boolean, reason: string | null, actor: AuditActor): Promise<Tenant> {
+  return ctx.db.transaction(async (m) => {
+    const tenant = await getTenantOr404(m, id);
+    if (suspend === (tenant.suspendedAt !== null)) return tenant;
+    tenant.suspendedAt = suspend ? new Date() : null;
+    tenant.suspendedReason = suspend ? reason : null;
+    await recordAudit(m, { tenantId: id, action: suspend ? 'tenant-suspended' : 'tenant-resumed', actor, target: tenant.slug, details: reason ? { reason } : {} });
+    return m.save(tenant);
+  });
+}
+
+export function listTenants(ctx: AppContext, opts: { cursor?: string; limit?: number; q?: string }) {
+  const qb = ctx.db.getRepository(Tenant).createQueryBuilder('t');
+  if (opts.q) qb.andWhere('(t.slug ILIKE :q OR t.name ILIKE :q)', { q: `%${opts.q.replace(/[\\%_]/g, (c) => '\\' + c)}%` });
+  return paginateNewestFirst(qb, 'tenants', opts);
+}
+
+export async function tenantView(manager: EntityManager, tenant: Tenant) {
+  const plan = await manager.findOneByOrFail(Plan, { id: tenant.planId });
+  return {
+    id: tenant.id,
+    slug: tenant.slug,
+    name: tenant.name,
+    planId: tenant.planId,
+    limitOverrides: tenant.limitOverrides,
+    limits: effectiveLimits(plan, tenant.limitOverrides),
+    suspended: tenant.suspendedAt !== null,
+    suspendedAt: tenant.suspendedAt?.toISOString() ?? null,
+    suspendedReason: tenant.suspendedReason,
+    createdAt: tenant.createdAt.toISOString(),
+  };
+}
+
+export const planView = (p: Plan) => ({
+  id: p.id,
+  name: p.name,
+  description: p.description,
+  limits: effectiveLimits(p, {}),
+});

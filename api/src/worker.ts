@@ -1,0 +1,22 @@
+// `npm run worker`: a standalone solver worker. Start as many as the load needs, on any host that
+// reaches the database; pg-boss hands each run to exactly one of them.
+import { createContext } from './bootstrap';
+import { stopQueue } from './services/run-queue';
+import { startWorkers } from './services/workers';
+
+const ctx = await createContext();
+const workers = await startWorkers(ctx, { concurrency: ctx.config.workerConcurrency });
+ctx.log.info({ workerId: workers.workerId, concurrency: ctx.config.workerConcurrency }, 'worker ready');
+process.stdout.write(`worker ready ${workers.workerId}\n`);
+
+let stopping = false;
+async function shutdown() {
+  if (stopping) return;
+  stopping = true;
+  await workers.stop();
+  await stopQueue(ctx);
+  await ctx.db.destroy();
+  process.exit(0);
+}
+process.on('SIGINT', shutdown);
+process.on('SIGTERM', shutdown);
