@@ -38,10 +38,12 @@ describe('solve CLI', () => {
   it('prints the schedule as CSV with --csv', () => {
     const r = solve([reference('battery-arbitrage.json'), '--csv']);
     expect(r.code).toBe(0);
-    const lines = r.stdout.trim().split('\n');
-    expect(lines[0]).toBe('timestamp,step,supply_used_kw,curtailed_kw,unserved_kw,import_kw,export_kw,b_charge_kw,b_discharge_kw,b_soc_kwh');
+    // The API's CSV with its default options (services/schedule-csv.ts), RFC 4180 CRLF rows.
+    const lines = r.stdout.trim().split('\r\n');
+    expect(lines[0]).toBe('timestamp,site.supplyUsedKw,site.curtailedKw,site.unservedKw,grid.importKw,grid.exportKw,b.chargeKw,b.dischargeKw,b.socKwh');
     expect(lines).toHaveLength(5);
-    expect(lines[1].startsWith('2027-01-01T00:00:00Z,0,')).toBe(true);
+    // Reference case: charge 2 000 kW from the grid at step 0 (README of the reference cases).
+    expect(lines[1]).toBe('2027-01-01T00:00:00Z,0,0,0,2000,0,2000,0,1800');
   });
 
   it('exits 0 for an infeasible spec: an outcome, not an error', () => {

@@ -9,7 +9,7 @@ import { parseArgs } from 'node:util';
 import { resolveDefaults, validateSiteSpec } from '@gridwright/shared/site-spec';
 import { solveSite } from '../engine/solve-site';
 import { defaultSolverPool } from '../engine/solver-pool';
-import { emptyScheduleCsv, scheduleToCsv } from '../engine/schedule-to-csv';
+import { scheduleToCsv } from '../services/schedule-csv';
 import { HttpProblem, validationProblem, type ProblemFieldError } from '../lib/problem';
 
 const USAGE = 'usage: npm run --silent solve -- <spec.json | -> [--mode monolithic|rolling] [--no-reductions] [--csv]';
@@ -71,11 +71,19 @@ async function main(): Promise<void> {
 
   const result = await solveSite(spec);
   if (values.csv) {
-    if (result.schedule) process.stdout.write(scheduleToCsv(result.schedule));
-    else {
-      process.stdout.write(emptyScheduleCsv(spec.units.map((u) => u.id), spec.storage.map((s) => s.id)));
-      process.stderr.write(`outcome: ${result.outcome}; no schedule\n`);
-    }
+    // The same columns as GET /v1/runs/{id}/schedule?format=csv with its defaults.
+    const csvDefaults = { powerUnit: 'kW', timestamps: 'offset', delimiter: ',', tagMap: {} } as const;
+    const schedule = result.schedule ?? {
+      timestamps: [],
+      supplyUsedKw: [],
+      curtailedKw: [],
+      unservedKw: [],
+      grid: { importKw: [], exportKw: [] },
+      units: Object.fromEntries(spec.units.map((u) => [u.id, { on: [], powerKw: [] }])),
+      storage: Object.fromEntries(spec.storage.map((s) => [s.id, { chargeKw: [], dischargeKw: [], socKwh: [] }])),
+    };
+    process.stdout.write(scheduleToCsv(schedule, csvDefaults));
+    if (!result.schedule) process.stderr.write(`outcome: ${result.outcome}; no schedule\n`);
   } else {
     process.stdout.write(JSON.stringify(result, null, 2) + '\n');
   }
