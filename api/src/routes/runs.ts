@@ -87,7 +87,7 @@ export function runsRouter(ctx: AppContext): Router {
         slug: 'no-schedule',
         title: 'No schedule yet',
         detail: run.result ? `Run ${run.id} ended ${run.outcome ?? run.status} without a schedule.` : `Run ${run.id} is ${run.status}; the schedule exists once it has succeeded.`,
-        extensions: { status: run.status, outcome: run.outcome },
+        extensions: { runStatus: run.status, outcome: run.outcome },
       });
     }
     const wantsCsv = req.query.format === 'csv' || (req.query.format === undefined && req.accepts(['application/json', 'text/csv']) === 'text/csv');

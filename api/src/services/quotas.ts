@@ -80,6 +80,21 @@ export async function assertRunAllowed(
       headers: { 'Retry-After': secondsUntil(period.end) },
     });
   }
+  // Under the same lock, so simultaneous submissions cannot both take the last slot.
+  const [active] = await manager.query(
+    "SELECT count(*)::int AS n FROM runs WHERE tenant_id = $1 AND status IN ('queued', 'running')",
+    [tenantId],
+  );
+  if (active.n >= limits.concurrentRuns) {
+    throw new HttpProblem({
+      status: 429,
+      slug: 'concurrent-runs',
+      title: 'Too many runs in progress',
+      detail: `${active.n} runs are queued or running; the plan allows ${limits.concurrentRuns} at once. Submit again when one has ended.`,
+      extensions: { limit: limits.concurrentRuns, active: active.n },
+      headers: { 'Retry-After': '5' },
+    });
+  }
   if (used.solverSeconds >= limits.monthlySolverSeconds) {
     throw new HttpProblem({
       status: 429,

@@ -58,6 +58,20 @@ describe('quotas and usage', () => {
     expect(Number(p.headers['Retry-After'])).toBeGreaterThan(0);
   });
 
+  it("refuses a run above the plan's concurrent-runs cap while earlier runs are queued or running", async () => {
+    const { tenantId } = await createTenantWithKey(t.ctx);
+    await updateTenant(t.ctx, tenantId, { limitOverrides: { concurrentRuns: 2 } }, {});
+    const [first] = await insertRun(tenantId);
+    await insertRun(tenantId);
+    const p = await refusal(t.ctx.db.transaction((m) => assertRunAllowed(t.ctx, m, tenantId, { steps: 24, units: 1 })));
+    expect(p.status).toBe(429);
+    expect(p.type).toBe('/problems/concurrent-runs');
+    expect(p.message).toMatch(/^2 runs are queued or running; the plan allows 2 at once/);
+    // Once one has ended, the slot is free again.
+    await t.ctx.db.query(`UPDATE runs SET status = 'succeeded' WHERE id = $1`, [first.id]);
+    await t.ctx.db.transaction((m) => assertRunAllowed(t.ctx, m, tenantId, { steps: 24, units: 1 }));
+  });
+
   it('warns the owners at 80 % and 100 % of solver-seconds, once each per period, over real SMTP', async () => {
     const { tenantId, apiKey } = await createTenantWithKey(t.ctx, { slug: 'quota-watch' });
     const owner = await createUserSession(t.ctx, t.app, { tenantId, role: 'owner', email: 'owner@quota-watch.example' });

@@ -23,7 +23,7 @@ export class Accounts1780000000000 implements MigrationInterface {
       INSERT INTO plans (id, name, description, monthly_runs, monthly_solver_seconds, max_steps, max_units, requests_per_second, concurrent_runs, sort_order) VALUES
         ('pilot', 'Pilot', 'Trying Gridwright on one site: a week of quarter-hours, a handful of units.', 300, 3600, 672, 5, 5, 1, 1),
         ('field', 'Field', 'Day-ahead scheduling for a portfolio of sites.', 10000, 72000, 8784, 20, 25, 4, 2),
-        ('fleet', 'Fleet', 'Control-room scale: long horizons, many units, many integrations.', 200000, 1440000, 35136, 50, 100, 16, 3)`);
+        ('fleet', 'Fleet', 'Control-room scale: long horizons, many units, many integrations.', 200000, 1440000, 35136, 50, 100, 64, 3)`);
 
     await q.query(`
       CREATE TABLE tenants (
