@@ -128,6 +128,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
   const M = scales.money;
   const perKwh = (price: number) => (dh * price * P) / M;
   const tight = spec.solver.reductions.tightBigM;
+  const sparse = spec.solver.reductions.sparseSets;
   const a = new ModelAssembler();
   const cols: WindowColumns = {
     supply: filled(n),
@@ -164,7 +165,9 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       const powerUb = tight ? up.bigM[k] : u.ratingKw;
       const value = u.kind === 'flexible-load' ? perKwh(u.valuePerKwh) : -perKwh(u.costPerKwh);
       c.power[k] = a.col(ColKind.UnitPower, k, i, value, 0, powerUb / P);
-      if (up.needsStart) c.start[k] = a.col(ColKind.UnitStart, k, i, -u.startupCost / M, 0, up.noStart[k] ? 0 : 1);
+      // Sparse sets leave out the start indicators that could only be 0 (the rows then read
+      // y_k ≤ y_{k−1} there); the plain formulation keeps them, fixed at 0.
+      if (up.needsStart && !(sparse && up.noStart[k])) c.start[k] = a.col(ColKind.UnitStart, k, i, -u.startupCost / M, 0, up.noStart[k] ? 0 : 1);
     });
 
     spec.storage.forEach((s, i) => {

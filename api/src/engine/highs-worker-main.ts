@@ -45,7 +45,8 @@ function solve(req: SolveRequest): SolveReply {
     model.options.set({
       time_limit: req.timeLimitSeconds,
       mip_rel_gap: req.mipGap,
-      output_flag: true,
+      // Each log line is a message to the main thread; a caller without a log sink gets none.
+      output_flag: req.wantLog,
       log_to_console: false,
       // Measured on the demo sites and rolling windows: on these small unit-commitment MIPs the
       // feasibility-jump heuristic took about half of the solve time without finding better incumbents.

@@ -268,11 +268,20 @@ export function planWindow(
 
 /**
  * Charging and discharging one storage at once burns energy (round trip below 1) and never
- * pays unless the site must get rid of power: a paid import, a generator paid to run, or a
- * generator that may be held at a minimum stable output. Elsewhere surplus power is curtailed
- * for free, so the exclusivity binary is redundant there.
+ * pays unless the site must get rid of power: a paid import, a generator paid to run, or
+ * generators held at their minimum stable output that the site load and (unpaid) export
+ * cannot take. Elsewhere the loss is absorbed by curtailing supply, importing less or
+ * exporting more (repair-exclusivity.ts does exactly that, and re-solves with the binary
+ * where it cannot), so the exclusivity binary is redundant there.
  */
 function energyCanHaveNegativeValue(spec: ResolvedSiteSpec, t: number): boolean {
   if (spec.grid.importLimitKw > 0 && spec.grid.importPrice[t] < 0) return true;
-  return spec.units.some((u) => u.kind === 'generator' && (u.costPerKwh < 0 || u.minStableKw > 0));
+  let heldKw = 0;
+  for (const u of spec.units) {
+    if (u.kind !== 'generator') continue;
+    if (u.costPerKwh < 0) return true;
+    heldKw += u.minStableKw;
+  }
+  const exportable = spec.grid.exportPrice[t] >= 0 ? spec.grid.exportLimitKw : 0;
+  return heldKw > spec.siteLoad.kw[t] + exportable;
 }

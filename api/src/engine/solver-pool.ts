@@ -226,6 +226,7 @@ export class SolverPool {
         timeLimitSeconds: job.timeLimitSeconds,
         mipGap: job.mipGap,
         wantIis: job.wantIis ?? false,
+        wantLog: job.onLog !== undefined,
       };
       worker.postMessage(request);
     });

@@ -9,6 +9,8 @@ export interface SolveRequest {
   mipGap: number;
   /** Compute an infeasible subsystem when the model is proved infeasible. */
   wantIis: boolean;
+  /** Forward HiGHS's log lines; off, HiGHS formats and posts none. */
+  wantLog: boolean;
 }
 
 export type SolveStatus = 'optimal' | 'infeasible' | 'time-limit' | 'unbounded' | 'error';
