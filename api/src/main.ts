@@ -5,8 +5,10 @@ import { seedDemoRuns } from './services/demo-runs';
 import { describeDemoSeed, seedDemo } from './services/demo-seed';
 import { stopQueue } from './services/run-queue';
 import { startWorkers } from './services/workers';
+import { surviveDatabaseOutages } from './lib/survive-database-outages';
 
 const ctx = await createContext();
+surviveDatabaseOutages(ctx.log);
 await ctx.db.runMigrations({ transaction: 'each' });
 const demo = ctx.config.seedDemo && !ctx.config.production ? await seedDemo(ctx, [(c, seed) => seedDemoRuns(c, seed.tenantId).then(() => undefined)]) : null;
 

@@ -3,8 +3,10 @@
 import { createContext } from './bootstrap';
 import { stopQueue } from './services/run-queue';
 import { startWorkers } from './services/workers';
+import { surviveDatabaseOutages } from './lib/survive-database-outages';
 
 const ctx = await createContext();
+surviveDatabaseOutages(ctx.log);
 const workers = await startWorkers(ctx, { concurrency: ctx.config.workerConcurrency });
 ctx.log.info({ workerId: workers.workerId, concurrency: ctx.config.workerConcurrency }, 'worker ready');
 process.stdout.write(`worker ready ${workers.workerId}\n`);

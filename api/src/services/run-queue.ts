@@ -32,16 +32,34 @@ export function createBoss(config: Config, log: Logger): PgBoss {
 
 const ready = new WeakMap<PgBoss, Promise<PgBoss>>();
 
+const RACE_CODES = new Set(['40P01', '23505', '40001']);
+
+/**
+ * Worker processes that start together all create the same queues; pg-boss's createQueue can then
+ * deadlock or hit its unique key. The queue exists once any of them wins, so retry.
+ */
+async function createQueueRacing(boss: PgBoss, name: string, options: { deadLetter?: string; retryLimit?: number } = {}) {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      await boss.createQueue(name, { name, ...options });
+      return;
+    } catch (err) {
+      if (attempt >= 5 || !RACE_CODES.has((err as { code?: string }).code ?? '')) throw err;
+      await new Promise((r) => setTimeout(r, 50 * attempt + Math.random() * 100));
+    }
+  }
+}
+
 /** Starts pg-boss once per process and makes sure every queue exists (createQueue before send). */
 export function startQueue(ctx: Pick<AppContext, 'boss' | 'config'>): Promise<PgBoss> {
   let started = ready.get(ctx.boss);
   if (!started) {
     started = (async () => {
       await ctx.boss.start();
-      await ctx.boss.createQueue(RUN_DEAD_QUEUE);
-      await ctx.boss.createQueue(RUN_QUEUE, { name: RUN_QUEUE, deadLetter: RUN_DEAD_QUEUE, retryLimit: ctx.config.runRetryLimit });
-      await ctx.boss.createQueue(WEBHOOK_DEAD_QUEUE);
-      await ctx.boss.createQueue(WEBHOOK_QUEUE, { name: WEBHOOK_QUEUE, deadLetter: WEBHOOK_DEAD_QUEUE });
+      await createQueueRacing(ctx.boss, RUN_DEAD_QUEUE);
+      await createQueueRacing(ctx.boss, RUN_QUEUE, { deadLetter: RUN_DEAD_QUEUE, retryLimit: ctx.config.runRetryLimit });
+      await createQueueRacing(ctx.boss, WEBHOOK_DEAD_QUEUE);
+      await createQueueRacing(ctx.boss, WEBHOOK_QUEUE, { deadLetter: WEBHOOK_DEAD_QUEUE });
       return ctx.boss;
     })();
     started.catch(() => ready.delete(ctx.boss));
