@@ -1,6 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { defaultSolverThreads } from './engine/solver-pool';
 
 /** Every setting Gridwright reads, from the environment (the README's configuration table lists them). */
 export interface Config {
@@ -20,6 +21,8 @@ export interface Config {
   smtpUrl: string | null;
   mailFrom: string;
   workerConcurrency: number;
+  /** SOLVER_THREADS: HiGHS threads a worker process shares among its runs (parallel segments and blocks). */
+  solverThreads: number;
   webhookAllowLoopback: boolean;
   idempotencyHours: number;
   seedDemo: boolean;
@@ -88,6 +91,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     smtpUrl: env.SMTP_URL ?? null,
     mailFrom: env.MAIL_FROM ?? 'Gridwright <no-reply@gridwright.local>',
     workerConcurrency: Number(env.WORKER_CONCURRENCY ?? 1),
+    solverThreads: Math.max(1, Math.floor(Number(env.SOLVER_THREADS ?? defaultSolverThreads()))),
     webhookAllowLoopback: env.WEBHOOK_ALLOW_LOOPBACK === 'true',
     idempotencyHours: Number(env.IDEMPOTENCY_HOURS ?? 24),
     seedDemo: env.SEED_DEMO ? env.SEED_DEMO === 'true' : !production,

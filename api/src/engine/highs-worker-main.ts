@@ -51,6 +51,13 @@ function solve(req: SolveRequest): SolveReply {
       // Measured on the demo sites and rolling windows: on these small unit-commitment MIPs the
       // feasibility-jump heuristic took about half of the solve time without finding better incumbents.
       mip_heuristic_run_feasibility_jump: false,
+      // Measured on rolling windows of grid-tied sites with a battery (60 windows: 23.6 s → 16.5 s)
+      // and on 20-unit windows (174 s → 89 s): restarts after the root rebuilt the cut loop the
+      // hard windows had just finished, and the root reduced-cost heuristic found nothing the cut
+      // loop did not. The monolithic demo and benchmark sites solved as fast or faster.
+      mip_allow_restart: false,
+      mip_heuristic_run_root_reduced_cost: false,
+      ...(req.mipAbsGap !== undefined ? { mip_abs_gap: req.mipAbsGap } : {}),
     });
     const run = model.run({
       0: (event) => {

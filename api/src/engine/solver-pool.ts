@@ -1,5 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { createRequire } from 'node:module';
+import os from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { ModelArrays } from './model-arrays';
 import type { SolveReply, SolveRequest, WorkerMessage } from './solver-protocol';
@@ -20,8 +21,12 @@ export class SolverCrashedError extends Error {
 
 export interface SolveJob {
   model: ModelArrays;
+  /** Counted from when a worker takes the job, not from when it was queued. */
   timeLimitSeconds: number;
+  /** A `performance.now()` instant the job's time limit never reaches past, however long it queued. */
+  deadlineMs?: number;
   mipGap: number;
+  mipAbsGap?: number;
   wantIis?: boolean;
   signal?: AbortSignal;
   onLog?: (line: string) => void;
@@ -30,6 +35,8 @@ export interface SolveJob {
 export type SolveJobResult = Omit<SolveReply, 'type' | 'id'> & {
   /** The worker overran its time limit and was terminated; the result holds the last incumbent, if any. */
   killedAtDeadline: boolean;
+  /** From the moment a worker took the job to its answer: solver time, without time spent queued. */
+  workerSeconds: number;
 };
 
 export interface SolverPoolOptions {
@@ -88,8 +95,13 @@ export class SolverPool {
   private wasmModule: CompiledModule | null = null;
 
   constructor(options: SolverPoolOptions = {}) {
-    this.size = Math.max(1, options.size ?? 1);
+    this.size = Math.max(1, Math.floor(options.size ?? 1));
     this.solvesPerWorker = Math.max(1, options.solvesPerWorker ?? 1000);
+  }
+
+  /** How many solves run at once; the engine splits work into at least this many parallel parts. */
+  get threads(): number {
+    return this.size;
   }
 
   /** The HiGHS version string of the loaded WebAssembly build. */
@@ -110,6 +122,15 @@ export class SolverPool {
       if (free) run(free);
       else this.waiting.push({ run });
     });
+  }
+
+  /** Ends the threads that are not solving; the pool starts new ones when work comes. */
+  releaseIdle(): void {
+    for (const slot of this.slots.filter((s) => !s.busy)) {
+      slot.dead = true;
+      this.remove(slot);
+      void slot.worker.terminate();
+    }
   }
 
   async close(): Promise<void> {
@@ -173,6 +194,10 @@ export class SolverPool {
     slot.worker.ref();
     const id = this.nextId++;
     const { worker } = slot;
+    const dispatched = performance.now();
+    const elapsed = () => (performance.now() - dispatched) / 1000;
+    const timeLimitSeconds =
+      job.deadlineMs === undefined ? job.timeLimitSeconds : Math.max(0.05, Math.min(job.timeLimitSeconds, (job.deadlineMs - performance.now()) / 1000));
     return new Promise<SolveJobResult>((resolve, reject) => {
       let incumbent: { colValue: Float64Array; objective: number } | null = null;
       let settled = false;
@@ -192,7 +217,7 @@ export class SolverPool {
         if (msg.type === 'log') job.onLog?.(msg.line);
         else if (msg.type === 'incumbent') incumbent = { colValue: msg.colValue, objective: msg.objective };
         else if (msg.type === 'error') finish(true, () => reject(new SolverCrashedError(msg.message)));
-        else finish(false, () => resolve({ ...stripEnvelope(msg), killedAtDeadline: false }));
+        else finish(false, () => resolve({ ...stripEnvelope(msg), killedAtDeadline: false, workerSeconds: elapsed() }));
       };
       const onError = (err: Error) => finish(true, () => reject(new SolverCrashedError(err.message)));
       const onExit = (code: number) => finish(true, () => reject(new SolverCrashedError(`exit code ${code}`)));
@@ -208,12 +233,13 @@ export class SolverPool {
               dualBound: null,
               mipGap: null,
               nodes: 0,
-              runSeconds: job.timeLimitSeconds + graceSeconds(job.timeLimitSeconds),
+              runSeconds: timeLimitSeconds + graceSeconds(timeLimitSeconds),
               iis: null,
               killedAtDeadline: true,
+              workerSeconds: elapsed(),
             }),
           ),
-        (job.timeLimitSeconds + graceSeconds(job.timeLimitSeconds)) * 1000,
+        (timeLimitSeconds + graceSeconds(timeLimitSeconds)) * 1000,
       );
       worker.on('message', onMessage);
       worker.on('error', onError);
@@ -223,8 +249,9 @@ export class SolverPool {
         type: 'solve',
         id,
         model: job.model,
-        timeLimitSeconds: job.timeLimitSeconds,
+        timeLimitSeconds,
         mipGap: job.mipGap,
+        ...(job.mipAbsGap !== undefined ? { mipAbsGap: job.mipAbsGap } : {}),
         wantIis: job.wantIis ?? false,
         wantLog: job.onLog !== undefined,
       };
@@ -240,8 +267,13 @@ function stripEnvelope(msg: SolveReply): Omit<SolveReply, 'type' | 'id'> {
 
 let defaultPool: SolverPool | null = null;
 
+/** Solver threads when nobody says: one per core, at most four (each holds its own HiGHS heap). */
+export function defaultSolverThreads(): number {
+  return Math.max(1, Math.min(4, os.availableParallelism()));
+}
+
 /** The process-wide pool used when a caller passes none. */
 export function defaultSolverPool(): SolverPool {
-  defaultPool ??= new SolverPool();
+  defaultPool ??= new SolverPool({ size: defaultSolverThreads() });
   return defaultPool;
 }

@@ -7,6 +7,8 @@ export interface SolveRequest {
   model: ModelArrays;
   timeLimitSeconds: number;
   mipGap: number;
+  /** Absolute gap in the model's objective units; absent ⇒ HiGHS's default. */
+  mipAbsGap?: number;
   /** Compute an infeasible subsystem when the model is proved infeasible. */
   wantIis: boolean;
   /** Forward HiGHS's log lines; off, HiGHS formats and posts none. */

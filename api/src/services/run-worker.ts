@@ -5,6 +5,7 @@ import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridw
 import type { RunResult } from '@gridwright/shared/run-result';
 import type { AppContext } from '../context';
 import { solveSite } from '../engine/solve-site';
+import { SolverPool } from '../engine/solver-pool';
 import { recordRunUsage } from './quotas';
 import { RUN_DEAD_QUEUE, RUN_QUEUE, startQueue, type RunJobData } from './run-queue';
 import { lookupSupplySeries } from './series-lookup';
@@ -37,7 +38,7 @@ type Ending =
  * Only crashes (the process dies, the database fails) make the job fail and be retried; every
  * outcome of the spec itself, good or bad, completes the job.
  */
-export async function solveRunJob(ctx: AppContext, runId: string, workerId: string, solve: SolveFn = solveSite): Promise<void> {
+export async function solveRunJob(ctx: AppContext, runId: string, workerId: string, solve: SolveFn = solveSite, solver?: SolverPool): Promise<void> {
   const claimed = await claimRun(ctx, runId, workerId);
   if (!claimed) return;
   if (claimed.cancelRequested) {
@@ -96,6 +97,7 @@ export async function solveRunJob(ctx: AppContext, runId: string, workerId: stri
   let ending: Ending;
   try {
     const result = await solve(resolved, {
+      solver,
       signal: abort.signal,
       onLog,
       onProgress: (p: { windowsDone: number; windowsTotal: number }) => {
@@ -209,12 +211,23 @@ export async function startRunWorker(ctx: AppContext, opts: { concurrency?: numb
   const boss: PgBoss = await startQueue(ctx);
   const workerId = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
   const concurrency = Math.max(1, opts.concurrency ?? ctx.config.workerConcurrency);
+  // One pool for every run this process takes: runs at once share its threads, never more.
+  // Once stopped, its threads are ended as they fall idle; a run still solving goes on.
+  const solver = new SolverPool({ size: ctx.config.solverThreads });
+  let stopped = false;
+  const releaseIfStopped = () => {
+    if (stopped) solver.releaseIdle();
+  };
   const ids: string[] = [];
   const workOptions = { batchSize: 1, pollingIntervalSeconds: ctx.config.queuePollingSeconds };
   for (let i = 0; i < concurrency; i++) {
     ids.push(
       await boss.work<RunJobData>(RUN_QUEUE, workOptions, async ([job]) => {
-        await solveRunJob(ctx, job.data.runId, workerId, opts.solve);
+        try {
+          await solveRunJob(ctx, job.data.runId, workerId, opts.solve, solver);
+        } finally {
+          releaseIfStopped();
+        }
       }),
     );
   }
@@ -228,6 +241,8 @@ export async function startRunWorker(ctx: AppContext, opts: { concurrency?: numb
     workerId,
     async stop() {
       for (const id of ids) await boss.offWork({ id });
+      stopped = true;
+      releaseIfStopped();
     },
   };
 }
