@@ -2,12 +2,13 @@
 // Vitest project (unit, integration on a throwaway PostgreSQL, browser). Exits non-zero on any failure.
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { buildConsole, ensureChromium, ensureNodeModules, log, root, run } from './lib/setup.mjs';
+import { buildConsole, ensureChromium, ensureNodeModules, ensureReferenceSolvers, log, root, run } from './lib/setup.mjs';
 import { ensurePostgresInstalled } from './lib/postgres.mjs';
 
 ensureNodeModules();
 ensurePostgresInstalled(log);
 process.env.CHROMIUM_PATH = ensureChromium();
+ensureReferenceSolvers();
 
 const steps = [
   ['lint', 'npx', ['eslint', '.', '--max-warnings=0']],

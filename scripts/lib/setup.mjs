@@ -31,6 +31,22 @@ export function ensureChromium() {
   return debian;
 }
 
+/**
+ * Debian's cbc and glpsol: independent solvers the reference checks compare the engine with.
+ * Installed as root; without root the checks that need them are skipped outside CI.
+ */
+export function ensureReferenceSolvers() {
+  if (existsSync('/usr/bin/cbc') && existsSync('/usr/bin/glpsol')) return;
+  if (process.getuid?.() !== 0) {
+    log('cbc or glpsol missing (Debian packages coinor-cbc, glpk-utils): their reference checks will be skipped.');
+    return;
+  }
+  log('Installing the Debian packages coinor-cbc and glpk-utils for the reference checks (one time)…');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env });
+  execFileSync('apt-get', ['install', '-y', '-qq', 'coinor-cbc', 'glpk-utils'], { stdio: 'inherit', env });
+}
+
 export function consoleBuilt() {
   return existsSync(path.join(root, 'console', 'dist', 'index.html'));
 }
