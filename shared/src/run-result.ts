@@ -60,12 +60,19 @@ export interface Schedule {
 }
 
 export interface WindowReport {
+  /**
+   * `window`: a model whose first `committedSteps` steps are kept. `seam-probe`: a window solved
+   * only to choose the state where a parallel segment of the rolling horizon starts; it keeps nothing.
+   */
+  kind: 'window' | 'seam-probe';
   fromStep: number;
   /** Last step of the window's model (inclusive). */
   toStep: number;
   committedSteps: number;
   outcome: SolveOutcome;
   gap: number | null;
+  /** Independent parts the model split into and was solved in (reduction `independentBlocks`). */
+  blocks: number;
   solveSeconds: number;
 }
 
@@ -85,7 +92,9 @@ export interface ModelReport {
   coefficientRange: { matrix: CoefficientSpan; objective: CoefficientSpan; bounds: CoefficientSpan; rhs: CoefficientSpan };
   /** Every big-M in kW (unscaled); one entry per place, the largest value over steps. */
   bigM: { where: string; value: number }[];
-  reductions: { sparseSets: boolean; tightBigM: boolean; scaling: boolean; relaxExclusivity: boolean };
+  reductions: { sparseSets: boolean; tightBigM: boolean; scaling: boolean; relaxExclusivity: boolean; independentBlocks: boolean };
+  /** Rolling mode: sequences of windows solved side by side (1: one sequence). */
+  segments: number;
   /** The internal units chosen by `scaling` (1 kW and 1 money unit when off). */
   scale: { powerKw: number; money: number };
   buildSeconds: number;

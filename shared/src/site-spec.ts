@@ -20,6 +20,11 @@ export function defaultTimeLimitSeconds(steps: number): number {
   return Math.min(MAX_TIME_LIMIT_SECONDS, Math.max(DEFAULT_TIME_LIMIT_SECONDS, Math.ceil(steps / 60)));
 }
 export const DEFAULT_MIP_GAP = 1e-4;
+/**
+ * Rolling windows per parallel segment: a horizon of at least twice this many windows is cut
+ * into segments of about this many, solved side by side (a month of daily windows each).
+ */
+export const DEFAULT_SEGMENT_WINDOWS = 32;
 /** Validation stops listing errors after this many, so a bad 35 000-value array stays readable. */
 const MAX_REPORTED_ERRORS = 100;
 
@@ -119,6 +124,7 @@ const reductionsSchema = z.strictObject({
   tightBigM: z.boolean().optional(),
   scaling: z.boolean().optional(),
   relaxExclusivity: z.boolean().optional(),
+  independentBlocks: z.boolean().optional(),
 });
 
 const solverSchema = z.strictObject({
@@ -127,6 +133,8 @@ const solverSchema = z.strictObject({
     .strictObject({
       windowSteps: steps.optional(),
       commitSteps: steps.optional(),
+      segmentWindows: z.number().int().min(0).max(MAX_STEPS).refine((v) => v === 0 || v >= 2, 'must be 0 (one sequence) or at least 2').optional(),
+      lookahead: z.enum(['relaxed', 'integer']).optional(),
     })
     .optional(),
   /** Wall-clock limit for the whole run (all windows together in rolling mode). */
@@ -232,6 +240,7 @@ export interface Reductions {
   tightBigM: boolean;
   scaling: boolean;
   relaxExclusivity: boolean;
+  independentBlocks: boolean;
 }
 
 export interface ResolvedUnit {
@@ -275,7 +284,11 @@ export interface ResolvedSiteSpec {
   storage: ResolvedStorage[];
   solver: {
     mode: SolverMode;
-    window: { windowSteps: number; commitSteps: number };
+    /**
+     * `segmentWindows` 0: one sequence of windows, never split into parallel segments.
+     * `lookahead` "relaxed": binaries after a window's committed steps are relaxed to [0, 1].
+     */
+    window: { windowSteps: number; commitSteps: number; segmentWindows: number; lookahead: 'relaxed' | 'integer' };
     timeLimitSeconds: number;
     mipGap: number;
     reductions: Reductions;
@@ -335,6 +348,8 @@ export function resolveDefaults(spec: SiteSpec, availableKw?: number[]): Resolve
   const stepMinutes = spec.horizon.stepMinutes;
   const windowSteps = spec.solver?.window?.windowSteps ?? stepsInHours(36, stepMinutes);
   const commitSteps = spec.solver?.window?.commitSteps ?? Math.min(windowSteps, stepsInHours(24, stepMinutes));
+  const segmentWindows = spec.solver?.window?.segmentWindows ?? DEFAULT_SEGMENT_WINDOWS;
+  const lookahead = spec.solver?.window?.lookahead ?? 'relaxed';
   const r = spec.solver?.reductions;
 
   return {
@@ -384,7 +399,7 @@ export function resolveDefaults(spec: SiteSpec, availableKw?: number[]): Resolve
     })),
     solver: {
       mode: spec.solver?.mode ?? 'auto',
-      window: { windowSteps, commitSteps },
+      window: { windowSteps, commitSteps, segmentWindows, lookahead },
       timeLimitSeconds: spec.solver?.timeLimitSeconds ?? defaultTimeLimitSeconds(spec.horizon.steps),
       mipGap: spec.solver?.mipGap ?? DEFAULT_MIP_GAP,
       reductions: {
@@ -392,6 +407,7 @@ export function resolveDefaults(spec: SiteSpec, availableKw?: number[]): Resolve
         tightBigM: r?.tightBigM ?? true,
         scaling: r?.scaling ?? true,
         relaxExclusivity: r?.relaxExclusivity ?? true,
+        independentBlocks: r?.independentBlocks ?? true,
       },
     },
   };

@@ -52,7 +52,7 @@ describe('demo sites', () => {
     const checked = validateSiteSpec(exampleSites.find((e) => e.id === 'grid-electrolyser')!.spec);
     if (!checked.ok) throw new Error('invalid example');
     const naive = resolveDefaults(checked.spec);
-    naive.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false };
+    naive.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false };
     const reduced = resolveDefaults(checked.spec);
     const [a, b] = await Promise.all([solveSite(naive, { solver: pool }), solveSite(reduced, { solver: pool })]);
     const spread = (s: [number, number] | null) => (s ? s[1] / s[0] : 1);

@@ -31,7 +31,7 @@ describe('reference cases through solveSite', () => {
     for (const reductions of [true, false]) {
       it(`${file} reaches ${optimum} with reductions ${reductions ? 'on' : 'off'}`, async () => {
         const spec = load(file);
-        if (!reductions) spec.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false };
+        if (!reductions) spec.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false };
         const r = await solveSite(spec, { solver: pool });
         expect(r.outcome).toBe('optimal');
         expect(r.objective.value!).toBeCloseTo(optimum, 6);

@@ -27,9 +27,10 @@ describe('site spec v1 validation', () => {
     expect(s.storage[0]).toMatchObject({ minSocKwh: 0, chargeEfficiency: 1, dischargeEfficiency: 1, cycleCostPerKwh: 0, finalSocKwh: null });
     expect(s.grid).toEqual({ island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0] });
     expect(s.siteLoad).toEqual({ kw: [0, 0, 0], unservedPenaltyPerKwh: null });
-    // Default windows are the steps in 36 h and 24 h.
-    expect(s.solver.window).toEqual({ windowSteps: 36, commitSteps: 24 });
-    expect(s.solver.reductions).toEqual({ sparseSets: true, tightBigM: true, scaling: true, relaxExclusivity: true });
+    // Default windows are the steps in 36 h and 24 h; a month of them per parallel segment; the
+    // lookahead relaxed.
+    expect(s.solver.window).toEqual({ windowSteps: 36, commitSteps: 24, segmentWindows: 32, lookahead: 'relaxed' });
+    expect(s.solver.reductions).toEqual({ sparseSets: true, tightBigM: true, scaling: true, relaxExclusivity: true, independentBlocks: true });
   });
 
   it('expands a scalar price to one per step', () => {
@@ -71,6 +72,13 @@ describe('site spec v1 validation', () => {
     expect(byPointer['/storage/0/initialSocKwh']).toMatch(/within/);
     expect(byPointer['/storage/0/finalSocKwh']).toMatch(/within/);
     expect(byPointer['/solver/window/commitSteps']).toMatch(/exceeds windowSteps/);
+  });
+
+  it('names a one-window segment and an unknown lookahead', () => {
+    const errors = errorsOf({ ...minimal(), solver: { window: { segmentWindows: 1, lookahead: 'partial' } } });
+    const byPointer = Object.fromEntries(errors.map((e) => [e.pointer, e.message]));
+    expect(byPointer['/solver/window/segmentWindows']).toMatch(/0 \(one sequence\) or at least 2/);
+    expect(byPointer['/solver/window/lookahead']).toBeDefined();
   });
 
   it('rejects efficiencies outside (0, 1], non-finite numbers and unknown fields', () => {

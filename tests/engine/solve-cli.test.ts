@@ -30,7 +30,7 @@ describe('solve CLI', () => {
     expect(r.code).toBe(0);
     const result = JSON.parse(r.stdout);
     expect(result.model.mode).toBe('rolling');
-    expect(result.model.reductions).toEqual({ sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false });
+    expect(result.model.reductions).toEqual({ sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false });
     // Hand check: the load takes min(supply, 2 kW) at value 1: 1 + 2 + 2 = 5.
     expect(result.objective.value).toBeCloseTo(5, 9);
   });

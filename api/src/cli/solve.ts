@@ -67,7 +67,7 @@ async function main(): Promise<void> {
   }
   const spec = resolveDefaults(checked.spec);
   if (values.mode) spec.solver.mode = values.mode as 'monolithic' | 'rolling';
-  if (values['no-reductions']) spec.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false };
+  if (values['no-reductions']) spec.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false };
 
   const result = await solveSite(spec);
   if (values.csv) {

@@ -151,8 +151,9 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     if (plan.grid.exportUb[k] > 0) {
       cols.exp[k] = a.col(ColKind.Export, k, -1, perKwh(spec.grid.exportPrice[t]), 0, plan.grid.exportUb[k] / P);
     }
+    const integer = k < plan.integerSteps;
     if (plan.grid.hasBinary[k] && cols.imp[k] >= 0 && cols.exp[k] >= 0) {
-      cols.gridBinary[k] = a.col(ColKind.GridBinary, k, -1, 0, 0, 1, true);
+      cols.gridBinary[k] = a.col(ColKind.GridBinary, k, -1, 0, 0, 1, integer);
     }
     const L = spec.siteLoad.kw[t];
     if (penalty !== null && L > 0) cols.unserved[k] = a.col(ColKind.Unserved, k, -1, -perKwh(penalty), 0, L / P);
@@ -161,7 +162,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       const up = plan.units[i];
       if (!up.hasBinary[k]) return;
       const c = cols.units[i];
-      c.on[k] = a.col(ColKind.UnitOn, k, i, 0, up.forcedOn[k], up.forcedOff[k] ? 0 : 1, true);
+      c.on[k] = a.col(ColKind.UnitOn, k, i, 0, up.forcedOn[k], up.forcedOff[k] ? 0 : 1, integer);
       const powerUb = tight ? up.bigM[k] : u.ratingKw;
       const value = u.kind === 'flexible-load' ? perKwh(u.valuePerKwh) : -perKwh(u.costPerKwh);
       c.power[k] = a.col(ColKind.UnitPower, k, i, value, 0, powerUb / P);
@@ -178,10 +179,11 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       if (chargeUb > 0) c.charge[k] = a.col(ColKind.StorageCharge, k, i, 0, 0, chargeUb / P);
       if (dischargeUb > 0) c.discharge[k] = a.col(ColKind.StorageDischarge, k, i, -perKwh(s.cycleCostPerKwh), 0, dischargeUb / P);
       const last = k === n - 1;
-      const socLo = last ? sp.endSocFloorKwh : s.minSocKwh;
+      const fixed = last ? sp.endSocFixedKwh : null;
+      const socLo = fixed ?? (last ? sp.endSocFloorKwh : s.minSocKwh);
       const socValue = last ? (sp.terminalValuePerKwh * P) / M : 0;
-      c.soc[k] = a.col(ColKind.StorageSoc, k, i, socValue, socLo / P, s.capacityKwh / P);
-      if (sp.hasBinary[k] && c.charge[k] >= 0 && c.discharge[k] >= 0) c.binary[k] = a.col(ColKind.StorageBinary, k, i, 0, 0, 1, true);
+      c.soc[k] = a.col(ColKind.StorageSoc, k, i, socValue, socLo / P, (fixed ?? s.capacityKwh) / P);
+      if (sp.hasBinary[k] && c.charge[k] >= 0 && c.discharge[k] >= 0) c.binary[k] = a.col(ColKind.StorageBinary, k, i, 0, 0, 1, integer);
     });
   }
 

@@ -1,4 +1,7 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import { initialState } from './carry-state';
+import { monolithicWindow } from './horizon-windows';
+import { planWindow } from './plan-window';
 
 /**
  * `auto` switches to rolling windows above this many unit-steps plus storage-steps (the on/off
@@ -14,11 +17,44 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
  */
 export const AUTO_ROLLING_ABOVE = 1_200;
 
+/**
+ * The most unit-steps in one independent block of the monolithic model, or null when the model
+ * cannot split: storage carries energy across every step. Elsewhere steps where sparse sets
+ * leave every unit off by construction, for at least the longest minimum down time, separate
+ * blocks (independent-blocks.ts finds them exactly; this counts them without building the model).
+ */
+function largestBlockUnitSteps(spec: ResolvedSiteSpec): number | null {
+  const { sparseSets, independentBlocks } = spec.solver.reductions;
+  if (!sparseSets || !independentBlocks || spec.storage.length > 0 || spec.units.length === 0) return null;
+  const plan = planWindow(spec, monolithicWindow(spec)[0], initialState(spec));
+  const T = spec.horizon.steps;
+  const split = Math.max(...spec.units.map((u) => u.minDownSteps));
+  let largest = 0;
+  let blockStart = 0;
+  let quietRun = 0;
+  for (let t = 0; t <= T; t++) {
+    const quiet = t < T && plan.units.every((u) => !u.hasBinary[t]);
+    if (quiet) {
+      quietRun++;
+      continue;
+    }
+    if (quietRun >= split || t === T) {
+      largest = Math.max(largest, t - quietRun - blockStart);
+      blockStart = t;
+    }
+    quietRun = 0;
+  }
+  return largest * spec.units.length;
+}
+
 export function chooseSolveMode(spec: ResolvedSiteSpec): 'monolithic' | 'rolling' {
   const { mode, window } = spec.solver;
   if (mode !== 'auto') return mode;
   const T = spec.horizon.steps;
   if (T <= 2 * window.windowSteps) return 'monolithic';
   const size = T * (spec.units.length + spec.storage.length);
-  return size > AUTO_ROLLING_ABOVE ? 'rolling' : 'monolithic';
+  if (size <= AUTO_ROLLING_ABOVE) return 'monolithic';
+  // A horizon that falls apart into small independent blocks is solved whole, and exactly.
+  const block = largestBlockUnitSteps(spec);
+  return block !== null && block <= AUTO_ROLLING_ABOVE ? 'monolithic' : 'rolling';
 }

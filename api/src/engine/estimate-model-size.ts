@@ -2,12 +2,14 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { buildWindowModel } from './build-window-model';
 import { initialState } from './carry-state';
 import { chooseSolveMode } from './choose-solve-mode';
-import { monolithicWindow, rollingWindows } from './horizon-windows';
+import { monolithicWindow, rollingSegments } from './horizon-windows';
 import { planWindow } from './plan-window';
 
 export interface ModelSizeEstimate {
   mode: 'monolithic' | 'rolling';
   windows: number;
+  /** Rolling: sequences of windows solved side by side (each seam adds one probe window). */
+  segments: number;
   variables: number;
   binaries: { before: number; after: number };
   constraints: number;
@@ -20,7 +22,8 @@ export interface ModelSizeEstimate {
  */
 export function estimateModelSize(spec: ResolvedSiteSpec): ModelSizeEstimate {
   const mode = chooseSolveMode(spec);
-  const windows = mode === 'rolling' ? rollingWindows(spec) : monolithicWindow(spec);
+  const segments = mode === 'rolling' ? rollingSegments(spec) : [{ windows: monolithicWindow(spec) }];
+  const windows = segments.flatMap((s) => s.windows);
   const first = windows[0];
   const plan = planWindow(spec, first, initialState(spec));
   const built = buildWindowModel(plan);
@@ -30,6 +33,7 @@ export function estimateModelSize(spec: ResolvedSiteSpec): ModelSizeEstimate {
   return {
     mode,
     windows: windows.length,
+    segments: segments.length,
     variables: scale(built.model.numCols),
     binaries: { before: scale(plan.binariesBefore), after: scale(built.binaries) },
     constraints: scale(built.model.numRows),

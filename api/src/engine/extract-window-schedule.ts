@@ -58,6 +58,8 @@ export function extractWindowSchedule(plan: WindowPlan, built: BuiltModel, x: Fl
       if (Math.abs(soc - s.capacityKwh) <= socTol) soc = s.capacityKwh;
       if (Math.abs(soc - s.minSocKwh) <= socTol) soc = s.minSocKwh;
       if (s.finalSocKwh !== null && Math.abs(soc - s.finalSocKwh) <= socTol) soc = s.finalSocKwh;
+      const fixedEnd = k === window.steps - 1 ? plan.storage[i].endSocFixedKwh : null;
+      if (fixedEnd !== null && Math.abs(soc - fixedEnd) <= socTol) soc = fixedEnd;
       if (Math.abs(soc) <= socTol) soc = 0;
       out.storage[i].charge[t] = charge;
       out.storage[i].discharge[t] = discharge;

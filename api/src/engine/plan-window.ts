@@ -7,6 +7,15 @@ export interface HorizonWindow {
   steps: number;
   commit: number;
   isFinal: boolean;
+  /** The state the window must end in: where the next parallel segment of a rolling solve starts. */
+  endState?: WindowEndState;
+}
+
+/** A state fixed at a window's end: each storage's SOC and each unit's last on/off values. */
+export interface WindowEndState {
+  socKwh: number[];
+  /** Per unit, its on/off values over the window's last `tail.length` steps. */
+  unitTails: Uint8Array[];
 }
 
 /** The state a window starts from: the spec's initial state, or what the previous window committed. */
@@ -42,6 +51,8 @@ export interface StoragePlan {
   dischargeM: Float64Array;
   /** Lower bound on SOC after the window's last step (minSoc, or the final target in the last window). */
   endSocFloorKwh: number;
+  /** SOC after the window's last step when the window must end in a given state, else null. */
+  endSocFixedKwh: number | null;
   /** Money per kWh credited for energy left above minSoc at the end of a non-final window. */
   terminalValuePerKwh: number;
 }
@@ -66,6 +77,12 @@ export interface WindowPlan {
   grid: GridPlan;
   /** The binaries the plain formulation would have, before pruning and relaxation. */
   binariesBefore: number;
+  /**
+   * On/off and exclusivity decisions are binary at steps before this one; after it (the
+   * lookahead a rolling window does not keep) they are relaxed to [0, 1] when
+   * `solver.window.lookahead` is "relaxed".
+   */
+  integerSteps: number;
 }
 
 /** A bound no model coefficient needs to exceed when `tightBigM` is off: ten times the site's total power. */
@@ -112,16 +129,16 @@ function median(values: number[]): number {
   return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
 }
 
-/**
- * Plans one window: the index sets, every big-M, the scales, which exclusivity binaries may be
- * dropped, and how storage is valued at the window's end.
- */
 export interface ForcedBinaries {
   /** Local steps per storage where the exclusivity binary must stay. */
   storage: Set<number>[];
   grid: Set<number>;
 }
 
+/**
+ * Plans one window: the index sets, every big-M, the scales, which exclusivity binaries may be
+ * dropped, which steps keep their binaries, and how storage is valued at the window's end.
+ */
 export function planWindow(
   spec: ResolvedSiteSpec,
   window: HorizonWindow,
@@ -136,6 +153,9 @@ export function planWindow(
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
+  // Relax-and-fix: the lookahead only values the state the kept steps leave, so its LP
+  // relaxation serves, and the MIP is left with the decisions that are actually kept.
+  const integerSteps = window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
 
   let genRatings = 0;
   let flexRatings = 0;
@@ -179,7 +199,7 @@ export function planWindow(
     grid.importM[k] = reductions.tightBigM ? tightImport : loose;
     grid.exportM[k] = reductions.tightBigM ? tightExport : loose;
     if (gridBinaryPossible) {
-      binariesBefore++;
+      if (k < integerSteps) binariesBefore++;
       // Importing and exporting at once only pays when a kWh sells for more than it costs;
       // otherwise netting the two never lowers the objective, so the binary is redundant.
       const needed = spec.grid.importPrice[t] < spec.grid.exportPrice[t];
@@ -197,7 +217,7 @@ export function planWindow(
     const mustStayOn = initial.on ? Math.max(0, u.minUpSteps - initial.stepsInState) : 0;
     const mustStayOff = initial.on ? 0 : Math.max(0, u.minDownSteps - initial.stepsInState);
     for (let k = 0; k < n; k++) {
-      binariesBefore++;
+      if (k < integerSteps) binariesBefore++;
       const reach =
         u.kind === 'generator'
           ? sink[k] + exportLimitKw
@@ -212,6 +232,19 @@ export function planWindow(
         hasBinary[k] = reductions.sparseSets ? 0 : 1;
       } else {
         hasBinary[k] = !reductions.sparseSets || tight >= u.minStableKw - 1e-9 ? 1 : 0;
+      }
+    }
+    const tail = window.endState?.unitTails[i] ?? new Uint8Array(0);
+    for (let j = 0; j < tail.length; j++) {
+      const k = n - tail.length + j;
+      // The start state's own minimum up/down time wins; the caller sees the end state missed.
+      if (k < 0 || forcedOn[k] || forcedOff[k]) continue;
+      if (tail[j]) {
+        forcedOn[k] = 1;
+        hasBinary[k] = 1;
+      } else {
+        forcedOff[k] = 1;
+        hasBinary[k] = reductions.sparseSets ? 0 : 1;
       }
     }
     const noStart = new Uint8Array(n);
@@ -247,7 +280,7 @@ export function planWindow(
       chargeM[k] = reductions.tightBigM ? limits[i].charge : loose;
       dischargeM[k] = reductions.tightBigM ? limits[i].discharge : loose;
       if (s.maxChargeKw <= 0 || s.maxDischargeKw <= 0) continue;
-      binariesBefore++;
+      if (k < integerSteps) binariesBefore++;
       hasBinary[k] =
         !reductions.relaxExclusivity || (!lossless && energyCanHaveNegativeValue(spec, t)) || forced?.storage[i].has(k) ? 1 : 0;
     }
@@ -256,14 +289,15 @@ export function planWindow(
       chargeM,
       dischargeM,
       endSocFloorKwh: window.isFinal && s.finalSocKwh !== null ? Math.max(s.minSocKwh, s.finalSocKwh) : s.minSocKwh,
+      endSocFixedKwh: window.endState ? window.endState.socKwh[i] : null,
       // Non-final windows credit stored energy at what it would fetch later (discharge losses
       // included), so they neither drain storage at their end nor hoard energy worth less
-      // than it cost. The final window has no later, so it gets no credit.
-      terminalValuePerKwh: window.isFinal ? 0 : energyValue * s.dischargeEfficiency,
+      // than it cost. The final window has no later, and a fixed end SOC leaves nothing to value.
+      terminalValuePerKwh: window.isFinal || window.endState ? 0 : energyValue * s.dischargeEfficiency,
     };
   });
 
-  return { spec, window, start, scales, dh, units, storage, grid, binariesBefore };
+  return { spec, window, start, scales, dh, units, storage, grid, binariesBefore, integerSteps };
 }
 
 /**

@@ -601,7 +601,7 @@ export interface paths {
          *     with the same body returns the same run (also when the duplicates arrive at the same
          *     time, with `Idempotent-Replayed: true`), the same key with a different body is `422`.
          *     Keys belong to your tenant and are remembered for `IDEMPOTENCY_HOURS` (default 24 hours).
-         *     The plan's caps on steps and units and the monthly quotas are checked here (`422`, `429`).
+         *     The plan's caps on steps and units (`422`), the monthly quotas and the plan's cap on runs queued or running at once (`429`, type `/problems/concurrent-runs`) are checked here.
          */
         post: operations["createRun"];
         delete?: never;
@@ -946,7 +946,7 @@ export interface components {
          * @description The site spec v1 (SPEC.md §1). Powers kW, energies kWh, money in the tenant's currency.
          *     Beyond this schema the API checks (400 with pointers): array lengths equal `horizon.steps`,
          *     `minStableKw ≤ ratingKw`, `minSocKwh ≤ initialSocKwh ≤ capacityKwh` (also `finalSocKwh`),
-         *     ids unique across units and storage, `commitSteps ≤ windowSteps`, a `seriesId` of your tenant
+         *     ids unique across units and storage, `commitSteps ≤ windowSteps`, `segmentWindows` 0 or at least 2, a `seriesId` of your tenant
          *     with the horizon's step covering the horizon; the plan's caps on steps and units (422).
          *     Extension points: `supply` is inline values or an uploaded series; prices are a number or
          *     one per step; `solver.reductions` switches each formulation technique; `solver.mode` and
@@ -988,27 +988,41 @@ export interface components {
             storage?: components["schemas"]["StorageSpec"][];
             solver?: {
                 /**
-                 * @description `auto` rolls on long horizons.
+                 * @description `auto` solves short horizons whole and rolls on long ones, unless the model falls apart into small independent blocks (a site without storage whose units cannot run at night): then it is solved whole, and exactly, however long the horizon.
                  * @enum {string}
                  */
                 mode?: "auto" | "monolithic" | "rolling";
-                /** @description Rolling horizon: solve `windowSteps`, keep `commitSteps`. Default: the steps in 36 h and 24 h. */
+                /** @description Rolling horizon: solve `windowSteps`, keep `commitSteps`, carry SOC, on/off state and time in state into the next window. Default: the steps in 36 h and 24 h. Non-final windows credit energy left in storage at what it would fetch later (the median import price over the lookahead, or the island's value of energy), times the discharge efficiency. */
                 window?: {
                     windowSteps?: number;
                     commitSteps?: number;
+                    /** @description A horizon of at least twice this many windows is cut into segments of about this many, solved side by side. The state where a segment starts is chosen beforehand by a probe window solved from one commit earlier; the segment before must end in it. When a segment cannot (or a probe finds no schedule) the horizon is solved on from before that seam as one sequence. The cut depends on the spec alone, so the schedule is the same on any machine. 0 keeps one sequence, as does a horizon of fewer than twice this many windows; 1 is refused. Default 32 (a month of daily windows). */
+                    segmentWindows?: number;
+                    /**
+                     * @description `relaxed` (default): the steps a window solves beyond those it keeps have their on/off and exclusivity decisions relaxed to [0, 1] (relax-and-fix): they only value the state the kept steps leave. The kept steps are always integral. `integer` solves the whole window as a MIP (slower; on the benchmark sites it changed the objective by under 0.01 %).
+                     * @enum {string}
+                     */
+                    lookahead?: "relaxed" | "integer";
                 };
-                /** @description Wall-clock limit for the whole run; default 60. */
+                /** @description Wall-clock limit for the whole run (all rolling windows together). Default: 60 s, or steps ÷ 60 seconds on longer horizons (a 15-minute year gets 584 s). */
                 timeLimitSeconds?: number;
                 /** @description Relative MIP gap; default 0.0001. */
                 mipGap?: number;
-                /** @description Each formulation technique can be switched off; none changes the optimum. All default to true. */
-                reductions?: {
-                    sparseSets?: boolean;
-                    tightBigM?: boolean;
-                    scaling?: boolean;
-                    relaxExclusivity?: boolean;
-                };
+                reductions?: components["schemas"]["Reductions"];
             };
+        };
+        /** @description Each formulation technique can be switched off; none changes the optimum. All default to true. */
+        Reductions: {
+            /** @description On/off binaries only at steps where a unit can run at all. */
+            sparseSets?: boolean;
+            /** @description Every big-M the smallest valid bound (a rating, a per-step reachable power). */
+            tightBigM?: boolean;
+            /** @description Internal power and money units (powers of ten) that keep coefficients near 1. */
+            scaling?: boolean;
+            /** @description No charge/discharge or import/export binary where doing both at once can never pay. */
+            relaxExclusivity?: boolean;
+            /** @description Solve the parts of a model that no constraint links separately and in parallel: with no storage, steps where sparse sets leave every unit off for at least its minimum down time separate the horizon into independent blocks. Their optima add up to the optimum. */
+            independentBlocks?: boolean;
         };
         /** @description One value per step (length = `horizon.steps`), each ≥ 0. */
         KwSeries: number[];
@@ -1056,6 +1070,8 @@ export interface components {
                 /** @enum {string} */
                 mode?: "monolithic" | "rolling";
                 windows?: number;
+                /** @description Rolling: sequences of windows solved side by side (each seam adds a probe window). */
+                segments?: number;
                 variables?: number;
                 binaries?: {
                     before?: number;
@@ -1063,6 +1079,59 @@ export interface components {
                 };
                 constraints?: number;
                 nonzeros?: number;
+            };
+        };
+        /** @description The formulation report. Counts are summed over every window solved (seam probes included); coefficient ranges are after scaling, across all windows; big-M values in kW, the largest per place. */
+        ModelReport: {
+            /** @enum {string} */
+            mode?: "monolithic" | "rolling";
+            /** @description Sequences of rolling windows solved side by side (1: one sequence, or monolithic). */
+            segments?: number;
+            windows?: {
+                /**
+                 * @description A seam probe chooses the state where a parallel segment starts and keeps no steps.
+                 * @enum {string}
+                 */
+                kind?: "window" | "seam-probe";
+                fromStep?: number;
+                /** @description Last step of the window (inclusive). */
+                toStep?: number;
+                committedSteps?: number;
+                /** @enum {string} */
+                outcome?: "optimal" | "feasible" | "infeasible" | "no-solution";
+                gap?: number | null;
+                /** @description Independent parts the model was solved in (reduction independentBlocks). */
+                blocks?: number;
+                /** @description Solver time, blocks summed; time waiting for a free solver thread is not counted. */
+                solveSeconds?: number;
+            }[];
+            variables?: number;
+            binaries?: number;
+            binariesPruned?: number;
+            constraints?: number;
+            nonzeros?: number;
+            /** @description [smallest, largest] absolute non-zero value of each family, or null. */
+            coefficientRange?: {
+                matrix?: number[] | null;
+                objective?: number[] | null;
+                bounds?: number[] | null;
+                rhs?: number[] | null;
+            };
+            bigM?: {
+                where?: string;
+                value?: number;
+            }[];
+            reductions?: components["schemas"]["Reductions"];
+            scale?: {
+                powerKw?: number;
+                money?: number;
+            };
+            buildSeconds?: number;
+            /** @description Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time. */
+            solveSeconds?: number;
+            solver?: {
+                name?: string;
+                version?: string;
             };
         };
         ResultWarning: {
@@ -1130,8 +1199,7 @@ export interface components {
             };
             kpis?: Record<string, never> | null;
             schedule?: components["schemas"]["Schedule"] | null;
-            /** @description The formulation report: mode, windows, counts, coefficient ranges, big-M list, reductions, timings, solver. */
-            model?: Record<string, never>;
+            model?: components["schemas"]["ModelReport"];
             warnings?: components["schemas"]["ResultWarning"][];
         };
         /** @description Per-step values; `timestamps` are the starts of the steps with the spec's offset. Advisory — an operator approves setpoints. */
@@ -2503,6 +2571,7 @@ export interface operations {
                         monthlySolverSeconds?: number | null;
                         maxSteps?: number | null;
                         maxUnits?: number | null;
+                        /** @description May be fractional: 0.1 is one request every ten seconds. */
                         requestsPerSecond?: number | null;
                         concurrentRuns?: number | null;
                     };

@@ -95,7 +95,7 @@ export function validSpecArb(maxSteps = 12) {
         ids: fc.uniqueArray(assetId, { minLength: 5, maxLength: 5 }),
         mode: fc.constantFrom('auto' as const, 'monolithic' as const, 'rolling' as const),
         window: fc.record({ windowSteps: fc.integer({ min: 1, max: steps + 2 }), commitShare: decimal(0.01, 1, 2) }),
-        reductions: fc.record({ sparseSets: fc.boolean(), tightBigM: fc.boolean(), scaling: fc.boolean(), relaxExclusivity: fc.boolean() }),
+        reductions: fc.record({ sparseSets: fc.boolean(), tightBigM: fc.boolean(), scaling: fc.boolean(), relaxExclusivity: fc.boolean(), independentBlocks: fc.boolean() }),
       })
       .map((r) => ({
         ...(r.name !== undefined ? { name: r.name } : {}),

@@ -20,8 +20,8 @@ export function readReferenceCase(file: string): ResolvedSiteSpec {
   return resolveSpec(JSON.parse(readFileSync(path.join(REFERENCE_DIR, file), 'utf8')));
 }
 
-export const ALL_REDUCTIONS_ON = { sparseSets: true, tightBigM: true, scaling: true, relaxExclusivity: true };
-export const ALL_REDUCTIONS_OFF = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false };
+export const ALL_REDUCTIONS_ON = { sparseSets: true, tightBigM: true, scaling: true, relaxExclusivity: true, independentBlocks: true };
+export const ALL_REDUCTIONS_OFF = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false };
 
 /** A copy solved in one window with the given reductions and an exact gap. */
 export function monolithic(spec: ResolvedSiteSpec, reductions: ResolvedSiteSpec['solver']['reductions'], mipGap = 1e-9): ResolvedSiteSpec {

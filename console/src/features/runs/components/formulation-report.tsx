@@ -63,6 +63,7 @@ export function FormulationReport({ model }: { model: ModelReport }) {
       <Panel title="Model size">
         <dl>
           <Stat label="Mode" value={model.mode} />
+          {model.mode === 'rolling' && <Stat label="Parallel segments" value={model.segments} />}
           <Stat label="Variables" value={formatNumber(model.variables, 0)} />
           <Stat label="Binaries (after pruning)" value={formatNumber(model.binaries, 0)} />
           <Stat label="Binaries pruned" value={formatNumber(model.binariesPruned, 0)} />
@@ -115,23 +116,27 @@ export function FormulationReport({ model }: { model: ModelReport }) {
             <thead>
               <tr>
                 <Th>#</Th>
+                <Th>Kind</Th>
                 <Th className="text-right">From step</Th>
                 <Th className="text-right">To step</Th>
                 <Th className="text-right">Committed</Th>
                 <Th>Outcome</Th>
                 <Th className="text-right">Gap</Th>
+                <Th className="text-right">Blocks</Th>
                 <Th className="text-right">Solve time</Th>
               </tr>
             </thead>
             <tbody>
               {model.windows.map((w, i) => (
-                <tr key={w.fromStep}>
+                <tr key={`${w.kind}-${w.fromStep}`}>
                   <Td className="font-mono text-xs text-ash-500">{i + 1}</Td>
+                  <Td className="text-xs">{w.kind === 'seam-probe' ? 'seam probe' : 'window'}</Td>
                   <Td className="text-right font-mono text-xs">{w.fromStep}</Td>
                   <Td className="text-right font-mono text-xs">{w.toStep}</Td>
                   <Td className="text-right font-mono text-xs">{w.committedSteps}</Td>
                   <Td className="text-xs">{w.outcome}</Td>
                   <Td className="text-right font-mono text-xs">{formatPercent(w.gap, 3)}</Td>
+                  <Td className="text-right font-mono text-xs">{w.blocks}</Td>
                   <Td className="text-right font-mono text-xs">{formatSeconds(w.solveSeconds)}</Td>
                 </tr>
               ))}

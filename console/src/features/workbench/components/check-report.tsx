@@ -6,6 +6,7 @@ export function CheckReport({ check }: { check: SpecCheck }) {
     ? [
         ['mode', size.mode],
         ['windows', size.windows],
+        ['parallel segments', size.segments],
         ['variables', size.variables],
         ['binaries before reductions', size.binaries?.before],
         ['binaries after reductions', size.binaries?.after],

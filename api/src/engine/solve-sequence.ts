@@ -1,0 +1,75 @@
+import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import { advanceState } from './carry-state';
+import type { HorizonWindow, WindowEndState, WindowStartState } from './plan-window';
+import type { ScheduleBuffers } from './schedule-buffers';
+import type { SolveBudget } from './solve-budget';
+import { solveWindow, type WindowSolve } from './solve-window';
+import { SolveAbortedError, type SolverPool } from './solver-pool';
+
+export interface SolveContext {
+  spec: ResolvedSiteSpec;
+  buffers: ScheduleBuffers;
+  pool: SolverPool;
+  budget: SolveBudget;
+  signal?: AbortSignal;
+  onLog?: (line: string) => void;
+}
+
+export interface WindowRecord {
+  kind: 'window' | 'seam-probe';
+  window: HorizonWindow;
+  result: WindowSolve;
+}
+
+export interface SequenceEnd {
+  /** Every window solved, in order; the last one failed when `failedAt` is set. */
+  records: WindowRecord[];
+  /** The state before each solved window. */
+  statesBefore: WindowStartState[];
+  /** The state after the last committed step. */
+  state: WindowStartState;
+  /** Index of the window that came out infeasible or without a solution, if one did. */
+  failedAt: number | null;
+}
+
+/** A window that came out infeasible or without a solution leaves nothing to go on from. */
+export const endedWithoutSchedule = (result: WindowSolve) => result.outcome === 'infeasible' || result.outcome === 'no-solution';
+
+/** One window on the run's solver threads, within its share of the run's time. */
+export async function solveBudgetedWindow(ctx: SolveContext, window: HorizonWindow, start: WindowStartState, buffers: ScheduleBuffers): Promise<WindowSolve> {
+  const result = await solveWindow(ctx.spec, window, start, buffers, {
+    pool: ctx.pool,
+    timeLimitSeconds: ctx.budget.nextLimitSeconds(),
+    signal: ctx.signal,
+    onLog: ctx.onLog,
+  });
+  ctx.budget.windowDone();
+  return result;
+}
+
+/**
+ * Solves windows one after the other, each from the state the previous one committed.
+ * `endState`, when given, is awaited before the last window only and fixes how it ends (null:
+ * it ends freely).
+ */
+export async function solveSequence(
+  ctx: SolveContext,
+  windows: HorizonWindow[],
+  start: WindowStartState,
+  endState?: () => Promise<WindowEndState | null>,
+): Promise<SequenceEnd> {
+  const records: WindowRecord[] = [];
+  const statesBefore: WindowStartState[] = [];
+  let state = start;
+  for (let i = 0; i < windows.length; i++) {
+    if (ctx.signal?.aborted) throw new SolveAbortedError();
+    const end = i === windows.length - 1 && endState ? await endState() : null;
+    const window = end ? { ...windows[i], endState: end } : windows[i];
+    statesBefore.push(state);
+    const result = await solveBudgetedWindow(ctx, window, state, ctx.buffers);
+    records.push({ kind: 'window', window, result });
+    if (endedWithoutSchedule(result)) return { records, statesBefore, state, failedAt: i };
+    state = advanceState(ctx.spec, state, ctx.buffers, window.from, window.from + window.commit);
+  }
+  return { records, statesBefore, state, failedAt: null };
+}

@@ -1,0 +1,124 @@
+import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import type { ResultWarning, SolveOutcome } from '@gridwright/shared/run-result';
+import { buildWindowModel, type BigMEntry } from './build-window-model';
+import { coefficientRanges, type CoefficientRanges } from './coefficient-ranges';
+import { diagnoseInfeasibleSubsystem } from './diagnose-infeasible-subsystem';
+import { extractWindowSchedule } from './extract-window-schedule';
+import { planWindow, type ForcedBinaries, type HorizonWindow, type WindowStartState } from './plan-window';
+import { repairExclusivity } from './repair-exclusivity';
+import type { ScheduleBuffers } from './schedule-buffers';
+import { solveInBlocks } from './solve-in-blocks';
+import type { SolverPool } from './solver-pool';
+
+/** Re-solves with the exclusivity binaries a relaxed solution could not do without; the last round keeps them all. */
+const EXCLUSIVITY_ROUNDS = 3;
+/** An infeasible subsystem is only sought on models this small; on larger ones it can outlast the time limit. */
+const IIS_MAX_COLUMNS = 5_000;
+
+export interface WindowSolve {
+  outcome: SolveOutcome;
+  gap: number | null;
+  bound: number | null;
+  blocks: number;
+  /** Solver time, blocks summed; time spent waiting for a free solver thread is not counted. */
+  solveSeconds: number;
+  buildSeconds: number;
+  variables: number;
+  binaries: number;
+  binariesBefore: number;
+  constraints: number;
+  nonzeros: number;
+  ranges: CoefficientRanges;
+  bigM: BigMEntry[];
+  scale: { powerKw: number; money: number };
+  diagnosis: ResultWarning[];
+}
+
+export interface WindowSolveOptions {
+  pool: SolverPool;
+  timeLimitSeconds: number;
+  signal?: AbortSignal;
+  onLog?: (line: string) => void;
+}
+
+const now = () => performance.now() / 1000;
+
+/**
+ * Plans, builds and solves one window, then copies its committed steps into `buffers` and
+ * removes simultaneous charge/discharge or import/export that a relaxed model let through
+ * (re-solving with those binaries where the schedule cannot simply be rewritten).
+ */
+export async function solveWindow(
+  spec: ResolvedSiteSpec,
+  window: HorizonWindow,
+  start: WindowStartState,
+  buffers: ScheduleBuffers,
+  opts: WindowSolveOptions,
+): Promise<WindowSolve> {
+  const forced: ForcedBinaries = { storage: spec.storage.map(() => new Set<number>()), grid: new Set<number>() };
+  const deadlineMs = performance.now() + opts.timeLimitSeconds * 1000;
+  let buildSeconds = 0;
+  let solveSeconds = 0;
+  for (let round = 0; ; round++) {
+    if (round === EXCLUSIVITY_ROUNDS - 1) {
+      for (let k = 0; k < window.steps; k++) {
+        forced.grid.add(k);
+        for (const s of forced.storage) s.add(k);
+      }
+    }
+    const t0 = now();
+    const plan = planWindow(spec, window, start, forced);
+    const built = buildWindowModel(plan);
+    buildSeconds += now() - t0;
+    const res = await solveInBlocks(
+      opts.pool,
+      built.model,
+      {
+        timeLimitSeconds: opts.timeLimitSeconds,
+        deadlineMs,
+        mipGap: spec.solver.mipGap,
+        wantIis: built.model.numCols <= IIS_MAX_COLUMNS,
+        signal: opts.signal,
+        onLog: opts.onLog,
+      },
+      spec.solver.reductions.independentBlocks,
+    );
+    solveSeconds += res.workerSeconds;
+    const base = {
+      blocks: res.blocks,
+      solveSeconds,
+      buildSeconds,
+      variables: built.model.numCols,
+      binaries: built.binaries,
+      binariesBefore: plan.binariesBefore,
+      constraints: built.model.numRows,
+      nonzeros: built.model.values.length,
+      ranges: coefficientRanges(built.model),
+      bigM: built.bigM,
+      scale: plan.scales,
+    };
+    if (!res.colValue) {
+      if (res.status === 'infeasible') {
+        const diagnosis = res.iis && (res.iis.rows.length || res.iis.cols.length) ? diagnoseInfeasibleSubsystem(spec, window, built.tags, res.iis) : [];
+        return { ...base, outcome: 'infeasible', gap: null, bound: null, diagnosis };
+      }
+      if (res.status === 'time-limit') return { ...base, outcome: 'no-solution', gap: null, bound: null, diagnosis: [] };
+      throw new Error(`HiGHS ended with status ${res.status} (model status ${res.modelStatus}) on steps ${window.from}–${window.from + window.steps - 1}`);
+    }
+    extractWindowSchedule(plan, built, res.colValue, buffers);
+    const left = repairExclusivity(spec, buffers, window.from, window.from + window.commit);
+    const unrepaired = left.grid.length + left.storage.reduce((n, s) => n + s.length, 0);
+    if (unrepaired === 0 || round === EXCLUSIVITY_ROUNDS - 1) {
+      const proved = res.status === 'optimal' && !res.killedAtDeadline;
+      return {
+        ...base,
+        outcome: proved ? 'optimal' : 'feasible',
+        gap: res.mipGap,
+        bound: res.dualBound === null ? null : res.dualBound * plan.scales.money,
+        diagnosis: [],
+      };
+    }
+    for (const t of left.grid) forced.grid.add(t - window.from);
+    left.storage.forEach((steps, i) => steps.forEach((t) => forced.storage[i].add(t - window.from)));
+  }
+}
