@@ -43,6 +43,25 @@ describe('rolling horizon', () => {
     expect(Math.abs(m - r)).toBeLessThanOrEqual(0.01 * Math.abs(m));
   });
 
+  it('keeps storage filled for a hard island load that only the battery serves after dark', async () => {
+    // Sun in the first 12 hours of each day, a hard 10 kW load, an empty battery, windows of 18
+    // hours keeping 12. The first window sees only 6 hours of night; were stored energy worth
+    // nothing at its end, it would charge for those 6 hours alone and leave the next window
+    // 60 kWh short of the night's 120 kWh — infeasible, though the spec is not.
+    const steps = 48;
+    const spec = resolve({
+      horizon: { start: '2027-01-01T00:00:00Z', stepMinutes: 60, steps },
+      supply: { availableKw: Array.from({ length: steps }, (_, t) => (t % 24 < 12 ? 100 : 0)) },
+      siteLoad: { kw: new Array(steps).fill(10) },
+      storage: [{ id: 'bess', capacityKwh: 200, maxChargeKw: 50, maxDischargeKw: 50, initialSocKwh: 0 }],
+      solver: { mode: 'rolling', window: { windowSteps: 18, commitSteps: 12, segmentWindows: 0 } },
+    });
+    const r = await solveSite(spec, { solver: pool });
+    expect(r.outcome).toBe('feasible');
+    // After the first day's sun (step 11) the battery holds at least the night's 120 kWh.
+    expect(r.schedule!.storage.bess.socKwh[11]).toBeGreaterThanOrEqual(120 - 1e-6);
+  });
+
   it('keeps minimum up and down times across window seams', async () => {
     // A 40 kW generator, min up 4 and min down 3, selling into the grid at a price that is
     // attractive in isolated steps only; windows of 7 steps committing 5 put seams at 5, 10, 15 ….

@@ -108,18 +108,28 @@ function storageStepLimits(spec: ResolvedSiteSpec, dh: number) {
 }
 
 /**
- * The value of a kWh at step t, used only to price energy left in storage at a window's end:
- * the import price where the site can import, else the export price, else what island energy
- * is worth to the site (fuel it saves, or the best flexible use, or the unserved-load penalty).
+ * What island energy is worth to the site, used only to price energy left in storage at a
+ * window's end: the fuel it saves, or the best flexible use, or the unserved-load penalty. A
+ * hard load on an island without generators has no price, yet energy kept for it may be all
+ * that serves it after dark: it is valued above every per-kWh figure the spec states, so a
+ * window ends with its storage as full as supply allows rather than indifferently empty.
  */
-function energyValueAt(spec: ResolvedSiteSpec, t: number): number {
-  if (spec.grid.importLimitKw > 0) return spec.grid.importPrice[t];
-  if (spec.grid.exportLimitKw > 0) return spec.grid.exportPrice[t];
+function islandEnergyValue(spec: ResolvedSiteSpec): number {
   const gens = spec.units.filter((u) => u.kind === 'generator');
   if (gens.length) return Math.max(0, Math.min(...gens.map((g) => g.costPerKwh)));
   const flex = spec.units.filter((u) => u.kind === 'flexible-load');
   const bestFlex = flex.length ? Math.max(0, ...flex.map((f) => f.valuePerKwh)) : 0;
-  return Math.max(bestFlex, spec.siteLoad.unservedPenaltyPerKwh ?? 0);
+  const penalty = spec.siteLoad.unservedPenaltyPerKwh;
+  if (penalty !== null || !spec.siteLoad.kw.some((kw) => kw > 0)) return Math.max(bestFlex, penalty ?? 0);
+  const stated = Math.max(bestFlex, ...spec.storage.map((s) => s.cycleCostPerKwh));
+  return stated > 0 ? 2 * stated : 1;
+}
+
+/** The value of a kWh at step t: the import price where the site can import, else the export price, else the island's value. */
+function energyValueAt(spec: ResolvedSiteSpec, t: number, island: number): number {
+  if (spec.grid.importLimitKw > 0) return spec.grid.importPrice[t];
+  if (spec.grid.exportLimitKw > 0) return spec.grid.exportPrice[t];
+  return island;
 }
 
 function median(values: number[]): number {
@@ -265,9 +275,10 @@ export function planWindow(
     };
   });
 
+  const island = spec.storage.length ? islandEnergyValue(spec) : 0;
   const lookahead: number[] = [];
-  for (let k = window.commit; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k));
-  if (!lookahead.length) for (let k = 0; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k));
+  for (let k = window.commit; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k, island));
+  if (!lookahead.length) for (let k = 0; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k, island));
   const energyValue = Math.max(0, median(lookahead));
 
   const storage: StoragePlan[] = spec.storage.map((s, i) => {
