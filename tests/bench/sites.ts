@@ -51,6 +51,32 @@ export function solarWeekSite(): ResolvedSiteSpec {
 }
 
 /**
+ * The week site's units on `days` days of its solar profile repeated (no grid, no storage): a
+ * model that falls apart into one independent block per day.
+ */
+export function solarOnlySite(days: number): ResolvedSiteSpec {
+  const week = solarWeekSite();
+  const steps = days * 96;
+  const profile = week.supply.availableKw;
+  return resolveSpec({
+    name: `Bench: solar-fed pumping and cooling, ${days} days`,
+    horizon: { start: week.horizon.start, stepMinutes: 15, steps },
+    supply: { availableKw: Array.from({ length: steps }, (_, t) => profile[t % profile.length]) },
+    units: week.units.map((u) => ({
+      id: u.id,
+      kind: u.kind,
+      ratingKw: u.ratingKw,
+      minStableKw: u.minStableKw,
+      valuePerKwh: u.valuePerKwh,
+      startupCost: u.startupCost,
+      minUpSteps: u.minUpSteps,
+      minDownSteps: u.minDownSteps,
+    })),
+    solver: { mode: 'monolithic', mipGap: 1e-4, timeLimitSeconds: 600 },
+  });
+}
+
+/**
  * A grid-tied site with solar, a site load, a battery, a backup generator and an electrolyser,
  * `days` days at `stepMinutes`. Time-of-use prices with a morning and an evening peak.
  */
