@@ -99,7 +99,7 @@ export class SolverPool {
     this.solvesPerWorker = Math.max(1, options.solvesPerWorker ?? 1000);
   }
 
-  /** How many solves run at once; the engine splits work into at least this many parallel parts. */
+  /** How many solves run at once. */
   get threads(): number {
     return this.size;
   }
