@@ -118,7 +118,7 @@ export async function solveRunJob(ctx: AppContext, runId: string, workerId: stri
     clearInterval(poll);
     clearTimeout(watchdog);
   }
-  await finishRun(ctx, runId, claimed, ending, log, (Date.now() - started) / 1000);
+  await finishRun(ctx, runId, claimed, ending, log, (Date.now() - started) / 1000, progress);
 }
 
 function endingFor(result: RunResult): Ending {
@@ -161,11 +161,24 @@ async function resolveRunSpec(ctx: AppContext, claimed: Claimed): Promise<Resolv
 
 const EVENT_FOR = { succeeded: 'run.succeeded', failed: 'run.failed', cancelled: 'run.cancelled' } as const;
 
-async function finishRun(ctx: AppContext, runId: string, claimed: Claimed, ending: Ending, log: string, solverSeconds: number) {
+/**
+ * The run's final row. `progress` is the solve's last report: a run quicker than the progress
+ * poll would otherwise end with none written.
+ */
+async function finishRun(
+  ctx: AppContext,
+  runId: string,
+  claimed: Claimed,
+  ending: Ending,
+  log: string,
+  solverSeconds: number,
+  progress: { windowsDone: number; windowsTotal: number } | null = null,
+) {
   const finished = await ctx.db.transaction(async (manager) => {
     const [rows] = await manager.query(
       `UPDATE runs SET status = $3, outcome = $4, result = $5, error = $6, solver_log = $7, solver_seconds = $8, finished_at = now(),
-              windows_done = CASE WHEN $3 = 'succeeded' THEN coalesce(windows_total, windows_done) ELSE windows_done END
+              windows_total = coalesce($10, windows_total),
+              windows_done = CASE WHEN $3 = 'succeeded' THEN coalesce($10, windows_total, windows_done) ELSE coalesce($9, windows_done) END
         WHERE id = $1 AND attempts = $2 AND status = 'running' RETURNING finished_at`,
       [
         runId,
@@ -176,6 +189,8 @@ async function finishRun(ctx: AppContext, runId: string, claimed: Claimed, endin
         ending.error ? JSON.stringify(ending.error) : null,
         log,
         solverSeconds,
+        progress?.windowsDone ?? null,
+        progress?.windowsTotal ?? null,
       ],
     );
     if (!rows.length) return null;

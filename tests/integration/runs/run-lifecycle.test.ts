@@ -43,6 +43,8 @@ describe('a run through the queue', () => {
     expect(done.finishedAt).toBeTruthy();
     expect(done.schedule.timestamps).toHaveLength(8);
     expect(done.progress.percent).toBe(100);
+    // One window, reported even when the solve ends before the progress poll first writes.
+    expect(done.progress).toMatchObject({ windowsDone: 1, windowsTotal: 1 });
     const spec = await request(t.app).get(`/v1/runs/${runId}/spec`).set(bearer(key)).expect(200);
     expect(spec.body).toMatchObject({ name: 'Test yard', horizon: smallSpec().horizon });
     const log = await request(t.app).get(`/v1/runs/${runId}/log`).set(bearer(key)).expect(200);
