@@ -74,6 +74,12 @@ describe('submitting and reading runs', () => {
       .send(smallSpec({ supply: { availableKw: [1, 2, 3] } }));
     expect(res.status).toBe(400);
     expect(res.body.errors).toEqual([expect.objectContaining({ pointer: '/supply/availableKw' })]);
+    const segments = await request(t.app)
+      .post('/v1/specs/validate')
+      .set(bearer(key))
+      .send(smallSpec({ solver: { window: { segmentWindows: 1, lookahead: 'integer' } } }));
+    expect(segments.status).toBe(400);
+    expect(segments.body.errors).toEqual([expect.objectContaining({ pointer: '/solver/window/segmentWindows' })]);
     const series = await request(t.app).post('/v1/runs').set(bearer(key)).send(smallSpec({ supply: { seriesId: 'ser_00000000000000000000000000000000' } }));
     expect(series.status).toBe(400);
     expect(series.body.errors[0].pointer).toBe('/supply/seriesId');
