@@ -2,7 +2,7 @@
 // Node built-ins only: this runs before `npm ci` may have installed anything.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync, chownSync, statSync } from 'node:fs';
+import { chmodSync, chownSync, existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import path from 'node:path';
 
@@ -55,7 +55,8 @@ function gidOf(user) {
 // PostgreSQL refuses to run as root; as root we run it as the `postgres` OS user.
 function asPgUser(cmd, args, opts = {}) {
   const full = isRoot ? ['runuser', ['-u', 'postgres', '--', cmd, ...args]] : [cmd, args];
-  return spawnSync(full[0], full[1], { encoding: 'utf8', ...opts });
+  // From `/`: the caller's folder may be one the postgres user cannot enter (a private temp folder).
+  return spawnSync(full[0], full[1], { encoding: 'utf8', cwd: '/', ...opts });
 }
 
 function canPgUserReach(dir) {
@@ -63,13 +64,19 @@ function canPgUserReach(dir) {
   return asPgUser('test', ['-x', path.dirname(dir)]).status === 0;
 }
 
+/** Where clusters go whose data folder the postgres OS user cannot reach (a private temp folder, /root). */
+const RELOCATION_ROOT = '/var/lib/gridwright';
+
 /** The folder the cluster lives in: under `dataRoot`, or a reachable fallback when the OS user cannot traverse it. */
 export function resolveClusterDir(dataRoot) {
   const wanted = path.resolve(dataRoot, 'postgres');
   mkdirSync(path.dirname(wanted), { recursive: true });
   if (canPgUserReach(wanted)) return { dir: wanted, relocated: false };
   const hash = createHash('sha256').update(wanted).digest('hex').slice(0, 12);
-  return { dir: path.join('/var/lib/gridwright', hash, 'postgres'), relocated: true };
+  // The postgres user must pass through the shared root to reach its own folder below it.
+  mkdirSync(RELOCATION_ROOT, { recursive: true });
+  chmodSync(RELOCATION_ROOT, 0o755);
+  return { dir: path.join(RELOCATION_ROOT, hash, 'postgres'), relocated: true };
 }
 
 export function freePort(preferred) {
