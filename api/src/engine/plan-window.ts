@@ -132,6 +132,31 @@ function energyValueAt(spec: ResolvedSiteSpec, t: number, island: number): numbe
   return island;
 }
 
+interface SiteFacts {
+  scales: Scales;
+  loose: number;
+  island: number;
+}
+
+const siteFactsCache = new WeakMap<ResolvedSiteSpec, SiteFacts>();
+
+/**
+ * What planning reads from the whole horizon, computed once per spec: a rolling year would
+ * otherwise rescan its 35 040 steps for every one of its windows (measured: 4 ms a window).
+ */
+function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+  let facts = siteFactsCache.get(spec);
+  if (!facts) {
+    facts = {
+      scales: chooseScales(spec, spec.solver.reductions.scaling),
+      loose: looseSiteBound(spec),
+      island: spec.storage.length ? islandEnergyValue(spec) : 0,
+    };
+    siteFactsCache.set(spec, facts);
+  }
+  return facts;
+}
+
 function median(values: number[]): number {
   if (!values.length) return 0;
   const sorted = values.slice().sort((a, b) => a - b);
@@ -158,8 +183,7 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const scales = chooseScales(spec, reductions.scaling);
-  const loose = looseSiteBound(spec);
+  const { scales, loose, island } = siteFacts(spec);
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
@@ -275,7 +299,6 @@ export function planWindow(
     };
   });
 
-  const island = spec.storage.length ? islandEnergyValue(spec) : 0;
   const lookahead: number[] = [];
   for (let k = window.commit; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k, island));
   if (!lookahead.length) for (let k = 0; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k, island));

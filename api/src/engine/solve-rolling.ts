@@ -3,7 +3,7 @@ import { advanceState, initialState, memoryOf, sameState } from './carry-state';
 import { windowsBetween, type RollingSegment } from './horizon-windows';
 import type { HorizonWindow, WindowEndState, WindowStartState } from './plan-window';
 import { createScheduleBuffers } from './schedule-buffers';
-import { endedWithoutSchedule, solveBudgetedWindow, solveSequence, type SequenceEnd, type SolveContext, type WindowRecord } from './solve-sequence';
+import { endedWithoutSchedule, failedRecord, solveBudgetedWindow, solveSequence, type SequenceEnd, type SolveContext, type WindowRecord } from './solve-sequence';
 import { SolveAbortedError } from './solver-pool';
 
 export interface HorizonSolve {
@@ -20,7 +20,6 @@ interface Seam {
   end: WindowEndState;
 }
 
-const failedRecord = (end: SequenceEnd) => (end.failedAt === null ? null : end.records[end.failedAt]);
 
 /**
  * The state at step `b` is chosen before the windows that lead there are solved: a probe

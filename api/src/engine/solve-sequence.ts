@@ -35,6 +35,9 @@ export interface SequenceEnd {
 /** A window that came out infeasible or without a solution leaves nothing to go on from. */
 export const endedWithoutSchedule = (result: WindowSolve) => result.outcome === 'infeasible' || result.outcome === 'no-solution';
 
+/** The window a sequence ended on without a schedule, if it did. */
+export const failedRecord = (end: SequenceEnd): WindowRecord | null => (end.failedAt === null ? null : end.records[end.failedAt]);
+
 /** One window on the run's solver threads, within its share of the run's time. */
 export async function solveBudgetedWindow(ctx: SolveContext, window: HorizonWindow, start: WindowStartState, buffers: ScheduleBuffers): Promise<WindowSolve> {
   const result = await solveWindow(ctx.spec, window, start, buffers, {

@@ -11,7 +11,7 @@ import { createScheduleBuffers, toSchedule } from './schedule-buffers';
 import { scheduleKpis } from './schedule-kpis';
 import { SolveBudget } from './solve-budget';
 import { solveRolling, type HorizonSolve } from './solve-rolling';
-import { solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
+import { failedRecord, solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
 import { defaultSolverPool, type SolverPool } from './solver-pool';
 import { specWarnings } from './spec-warnings';
 import { verifySchedule } from './verify-schedule';
@@ -178,7 +178,7 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions = {})
   if (segments) solved = await solveRolling(ctx, segments);
   else {
     const end = await solveSequence(ctx, monolithicWindow(spec), initialState(spec));
-    solved = { records: end.records, failed: end.failedAt === null ? null : end.records[end.failedAt], segments: 1 };
+    solved = { records: end.records, failed: failedRecord(end), segments: 1 };
   }
   report.segments = solved.segments;
   addWindows(report, solved.records);
