@@ -71,7 +71,7 @@ export function FormulationReport({ model }: { model: ModelReport }) {
           <Stat label="Constraints" value={formatNumber(model.constraints, 0)} />
           <Stat label="Nonzeros" value={formatNumber(model.nonzeros, 0)} />
           <Stat label="Build" value={formatSeconds(model.buildSeconds)} />
-          <Stat label="Solve" value={formatSeconds(model.solveSeconds)} />
+          <Stat label="Solver time (summed)" value={formatSeconds(model.solveSeconds)} />
           <Stat label="Solver" value={`${model.solver.name} ${model.solver.version}`} />
           {model.scale && <Stat label="Internal units" value={`${model.scale.powerKw} kW · ${model.scale.money} money`} />}
         </dl>

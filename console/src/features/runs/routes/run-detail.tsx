@@ -29,11 +29,21 @@ const views = [
 ] as const;
 type View = (typeof views)[number]['id'];
 
-function DispatchView({ result, spec, onPointer }: { result: RunResult; spec: SiteSpec | undefined; onPointer: (p: string) => void }) {
+function DispatchView({
+  result,
+  elapsedSeconds,
+  spec,
+  onPointer,
+}: {
+  result: RunResult;
+  elapsedSeconds: number | null | undefined;
+  spec: SiteSpec | undefined;
+  onPointer: (p: string) => void;
+}) {
   const schedule = result.schedule;
   return (
     <div className="space-y-3">
-      <KpiTiles result={result} />
+      <KpiTiles result={result} elapsedSeconds={elapsedSeconds} />
       <Panel title={`Warnings and diagnosis (${result.warnings.length})`}>
         <WarningsList warnings={result.warnings} onPointer={onPointer} />
       </Panel>
@@ -112,7 +122,7 @@ export function RunDetailRoute() {
         ) : !result ? (
           <EmptyState title={r.status === 'failed' || r.status === 'cancelled' ? `This run ${r.status} before it produced a result` : 'The result appears here when the run finishes'} />
         ) : view === 'dispatch' ? (
-          <DispatchView result={result} spec={spec.data} onPointer={openPointer} />
+          <DispatchView result={result} elapsedSeconds={r.solverSeconds} spec={spec.data} onPointer={openPointer} />
         ) : view === 'schedule' ? (
           result.schedule ? (
             <div className="space-y-2">
