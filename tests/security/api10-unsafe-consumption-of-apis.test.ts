@@ -6,11 +6,9 @@ import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { guardedPost } from '../../api/src/services/ssrf-guard';
-import { stopQueue } from '../../api/src/services/run-queue';
-import { startWebhookWorker } from '../../api/src/services/webhook-delivery';
-import { createTenantWithKey } from '../support/tenants';
-import { startTestApp, type TestApp } from '../support/test-app';
+import type { TestApp } from '../support/test-app';
 import { startWebhookReceiver } from '../support/webhook-receiver';
+import { startDeliveryApp, type DeliveryApp } from './support/delivery-app';
 
 async function hostileReceiver(handler: http.RequestListener) {
   const server = http.createServer(handler);
@@ -70,19 +68,14 @@ describe('API10 unsafe consumption of APIs', () => {
   });
 
   describe('through a delivery', () => {
+    let app: DeliveryApp;
     let t: TestApp;
     let apiKey: string;
-    let stopWorker: () => Promise<void>;
     beforeAll(async () => {
-      t = await startTestApp({ WEBHOOK_ALLOW_LOOPBACK: 'true', WEBHOOK_RETRY_LIMIT: '0', QUEUE_POLLING_SECONDS: '0.5' });
-      ({ apiKey } = await createTenantWithKey(t.ctx));
-      stopWorker = (await startWebhookWorker(t.ctx)).stop;
+      app = await startDeliveryApp();
+      ({ t, apiKey } = app);
     });
-    afterAll(async () => {
-      await stopWorker?.();
-      await stopQueue(t.ctx);
-      await t.close();
-    });
+    afterAll(async () => app?.close());
 
     it('ignores a receiver body that looks like instructions: the endpoint and the delivery log hold only facts', async () => {
       const receiver = await startWebhookReceiver();

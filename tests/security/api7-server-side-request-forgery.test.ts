@@ -7,10 +7,10 @@ import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { guardedPost } from '../../api/src/services/ssrf-guard';
-import { startWebhookWorker } from '../../api/src/services/webhook-delivery';
 import { createTenantWithKey } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
 import { startWebhookReceiver } from '../support/webhook-receiver';
+import { startDeliveryApp, type DeliveryApp } from './support/delivery-app';
 
 // Address ranges from RFC 6890 (special-purpose registries), RFC 4193 (unique local IPv6) and the
 // well-known cloud metadata address 169.254.169.254 (common practice).
@@ -81,20 +81,14 @@ describe('API7 server side request forgery', () => {
 });
 
 describe('API7 redirects are not followed (loopback receivers allowed, as in development)', () => {
+  let app: DeliveryApp;
   let t: TestApp;
   let apiKey: string;
-  let stopWorker: () => Promise<void>;
   beforeAll(async () => {
-    t = await startTestApp({ WEBHOOK_ALLOW_LOOPBACK: 'true', WEBHOOK_RETRY_LIMIT: '0', QUEUE_POLLING_SECONDS: '0.5' });
-    ({ apiKey } = await createTenantWithKey(t.ctx));
-    stopWorker = (await startWebhookWorker(t.ctx)).stop;
+    app = await startDeliveryApp();
+    ({ t, apiKey } = app);
   });
-  afterAll(async () => {
-    await stopWorker?.();
-    const { stopQueue } = await import('../../api/src/services/run-queue');
-    await stopQueue(t.ctx);
-    await t.close();
-  });
+  afterAll(async () => app?.close());
 
   it('records a redirect as a failed delivery and never calls the target it names', async () => {
     const internal = await startWebhookReceiver('/internal-admin');
