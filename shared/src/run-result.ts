@@ -16,6 +16,8 @@ export interface ObjectiveReport {
 export interface UnitKpis {
   energyKwh: number;
   starts: number;
+  /** Starts after more than `coldAfterSteps` steps off (all starts count as hot when the unit has one start cost). */
+  coldStarts: number;
   onSteps: number;
 }
 
@@ -25,20 +27,60 @@ export interface StorageKpis {
   finalSocKwh: number;
 }
 
+/** Totals of one store over the horizon, in its own unit. */
+export interface StoreKpis {
+  produced: number;
+  consumed: number;
+  /** The demand met (the demand less the shortfall). */
+  delivered: number;
+  shortfall: number;
+  spilled: number;
+  finalLevel: number;
+}
+
+export interface DemandChargeKpis {
+  /** The highest import in the charge's window, at least its existingPeakKw. */
+  peakKw: number;
+  /** pricePerKw × (peakKw − existingPeakKw). */
+  cost: number;
+}
+
+/**
+ * Where the money goes: each a signed contribution (value positive, cost negative) to
+ * `objective.value`, which they sum to.
+ */
+export interface ObjectiveTerms {
+  /** Export revenue − import cost + the value of flexible loads − generators' energy cost (their curves). */
+  energy: number;
+  noLoad: number;
+  starts: number;
+  demandCharges: number;
+  /** Unserved load, reserve shortfall and store shortfall, each at its penalty. */
+  penalties: number;
+  cycleCost: number;
+}
+
 export interface Kpis {
   suppliedKwh: number;
   curtailedKwh: number;
   importKwh: number;
   exportKwh: number;
   unservedKwh: number;
+  /** kWh of spinning reserve short of the requirement (0 without a requirement). */
+  reserveShortfallKwh: number;
   units: Record<string, UnitKpis>;
   storage: Record<string, StorageKpis>;
+  stores: Record<string, StoreKpis>;
+  demandCharges: Record<string, DemandChargeKpis>;
+  objectiveTerms: ObjectiveTerms;
 }
 
 export interface UnitSchedule {
   /** 0 or 1 per step. */
   on: number[];
   powerKw: number[];
+  /** Spinning reserve the unit holds per step; present when the spec has a reserve and the unit provides it. */
+  reserveKw?: number[];
 }
 
 export interface StorageSchedule {
@@ -46,6 +88,34 @@ export interface StorageSchedule {
   dischargeKw: number[];
   /** State of charge at the END of each step. */
   socKwh: number[];
+  /** Spinning reserve the battery holds per step; present when the spec has a reserve and the battery provides it. */
+  reserveKw?: number[];
+}
+
+export interface StoreSchedule {
+  /** Level at the END of each step, in the store's unit. */
+  level: number[];
+  /** Demand not met per step (store unit per hour). */
+  shortfall: number[];
+  /** Product discarded per step (store unit per hour). */
+  spill: number[];
+}
+
+export interface ReserveSchedule {
+  requiredKw: number[];
+  /** What the units and batteries that provide reserve hold: their headroom. */
+  providedKw: number[];
+  shortfallKw: number[];
+}
+
+/**
+ * Marginal values from the LP with every on/off and exclusivity decision fixed at the schedule's:
+ * what one more kWh delivered to the site (one more unit into a store) at that step is worth, in
+ * money per kWh (per store unit). null where no price is known.
+ */
+export interface MarginalValues {
+  energyPerKwh: (number | null)[];
+  stores: Record<string, (number | null)[]>;
 }
 
 export interface Schedule {
@@ -57,6 +127,10 @@ export interface Schedule {
   grid: { importKw: number[]; exportKw: number[] };
   units: Record<string, UnitSchedule>;
   storage: Record<string, StorageSchedule>;
+  stores: Record<string, StoreSchedule>;
+  /** null when the spec has no reserve requirement. */
+  reserve: ReserveSchedule | null;
+  marginalValues: MarginalValues;
 }
 
 export interface WindowReport {
@@ -96,7 +170,8 @@ export interface ModelReport {
   /** Rolling mode: sequences of windows solved side by side (1: one sequence). */
   segments: number;
   /** The internal units chosen by `scaling` (1 kW and 1 money unit when off). */
-  scale: { powerKw: number; money: number };
+  /** `stores`: per store, the internal unit of its level (a model level of 1 is that many units). */
+  scale: { powerKw: number; money: number; stores: Record<string, number> };
   buildSeconds: number;
   solveSeconds: number;
   solver: { name: string; version: string };

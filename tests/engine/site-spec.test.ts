@@ -22,10 +22,12 @@ describe('site spec v1 validation', () => {
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     const s = resolveDefaults(r.spec);
-    expect(s.units[0]).toMatchObject({ minStableKw: 0, startupCost: 0, costPerKwh: 0, valuePerKwh: 0, minUpSteps: 1, minDownSteps: 1 });
-    expect(s.units[0].initial).toEqual({ on: false, stepsInState: 1 });
+    // A generator without a cost is one slice at 0 per kWh up to its rating (SPEC §5 curves).
+    expect(s.units[0]).toMatchObject({ minStableKw: 0, curve: [{ upToKw: 10, perKwh: 0 }], minUpSteps: 1, minDownSteps: 1 });
+    expect(s.units[0].startupCost).toEqual({ hot: 0, cold: 0, coldAfterSteps: null });
+    expect(s.units[0].initial).toEqual({ on: false, stepsInState: 1, powerKw: null });
     expect(s.storage[0]).toMatchObject({ minSocKwh: 0, chargeEfficiency: 1, dischargeEfficiency: 1, cycleCostPerKwh: 0, finalSocKwh: null });
-    expect(s.grid).toEqual({ island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0] });
+    expect(s.grid).toEqual({ island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0], demandCharges: [] });
     expect(s.siteLoad).toEqual({ kw: [0, 0, 0], unservedPenaltyPerKwh: null });
     // Default windows are the steps in 36 h and 24 h; a month of them per parallel segment; the
     // lookahead relaxed.
@@ -68,7 +70,7 @@ describe('site spec v1 validation', () => {
     expect(byPointer['/siteLoad/kw']).toMatch(/4 values/);
     expect(byPointer['/grid/exportPrice']).toMatch(/1 values/);
     expect(byPointer['/units/0/minStableKw']).toMatch(/exceeds ratingKw/);
-    expect(byPointer['/storage/0/id']).toMatch(/unique across units and storage/);
+    expect(byPointer['/storage/0/id']).toMatch(/unique across units, storage and stores/);
     expect(byPointer['/storage/0/initialSocKwh']).toMatch(/within/);
     expect(byPointer['/storage/0/finalSocKwh']).toMatch(/within/);
     expect(byPointer['/solver/window/commitSteps']).toMatch(/exceeds windowSteps/);

@@ -73,13 +73,10 @@ function solve(req: SolveRequest): SolveReply {
     const status = statusOf(run.modelStatus);
     const empty = run.modelStatus === highs.constants.modelStatus.empty;
     const hasPrimal = empty || infoNumber(model, 'primal_solution_status') === 2;
-    const colValue =
-      hasPrimal && (status === 'optimal' || status === 'time-limit')
-        ? m.numCols === 0
-          ? new Float64Array(0)
-          : model.getSolution().colValue
-        : null;
+    const solution = hasPrimal && (status === 'optimal' || status === 'time-limit') && m.numCols > 0 ? model.getSolution() : null;
+    const colValue = solution ? solution.colValue : hasPrimal && m.numCols === 0 && (status === 'optimal' || status === 'time-limit') ? new Float64Array(0) : null;
     const isMip = m.integrality.some((v) => v !== 0);
+    const rowDual = req.wantDuals && !isMip && status === 'optimal' && solution ? solution.rowDual : null;
     let iis: SolveReply['iis'] = null;
     if (status === 'infeasible' && req.wantIis) {
       try {
@@ -104,6 +101,7 @@ function solve(req: SolveRequest): SolveReply {
       nodes: isMip ? (infoNumber(model, 'mip_node_count') ?? 0) : 0,
       runSeconds: model.getRunTime(),
       iis,
+      rowDual,
     };
   } finally {
     model.dispose();
@@ -113,7 +111,7 @@ function solve(req: SolveRequest): SolveReply {
 port.on('message', (req: SolveRequest) => {
   try {
     const reply = solve(req);
-    const transfer = reply.colValue ? [reply.colValue.buffer as ArrayBuffer] : [];
+    const transfer = [reply.colValue, reply.rowDual].filter((a) => a !== null).map((a) => a!.buffer as ArrayBuffer);
     post(reply, transfer);
   } catch (err) {
     post({ type: 'error', id: req.id, message: err instanceof Error ? err.message : String(err) });

@@ -101,6 +101,7 @@ function combineFailure(blocks: ModelBlock[], results: (SolveJobResult | null)[]
     dualBound: null,
     mipGap: null,
     iis,
+    rowDual: null,
     killedAtDeadline: results.some((r) => r?.killedAtDeadline === true),
     workerSeconds: results.reduce((sum, r) => sum + (r?.workerSeconds ?? 0), 0),
     blocks: blocks.length,
@@ -134,6 +135,7 @@ function combine(model: ModelArrays, blocks: ModelBlock[], results: SolveJobResu
     runSeconds,
     workerSeconds,
     iis: null,
+    rowDual: null,
     killedAtDeadline: results.some((r) => r.killedAtDeadline),
     blocks: blocks.length,
   };

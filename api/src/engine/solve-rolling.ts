@@ -36,8 +36,10 @@ async function probeSeam(ctx: SolveContext, b: number, probes: WindowRecord[]): 
   const steps = Math.min(windowSteps, T - from);
   const window: HorizonWindow = { from, steps, commit: b - from, isFinal: from + steps >= T };
   const guess: WindowStartState = {
-    units: spec.units.map((u) => ({ on: false, stepsInState: memoryOf(u) })),
+    units: spec.units.map((u) => ({ on: false, stepsInState: memoryOf(u), powerKw: null })),
     socKwh: spec.storage.map((s) => s.initialSocKwh),
+    storeLevels: spec.stores.map((s) => s.initial),
+    peaksKw: spec.grid.demandCharges.map((c) => c.existingPeakKw),
   };
   const scratch = createScheduleBuffers(spec);
   const result = await solveBudgetedWindow(ctx, window, guess, scratch);
@@ -46,14 +48,17 @@ async function probeSeam(ctx: SolveContext, b: number, probes: WindowRecord[]): 
   const start = advanceState(spec, guess, scratch, from, b);
   const end: WindowEndState = {
     socKwh: start.socKwh.slice(),
+    storeLevels: start.storeLevels.slice(),
     unitTails: spec.units.map((u, i) => scratch.units[i].on.slice(b - Math.min(memoryOf(u), b - from), b)),
+    // A ramp carries the output across the seam, so the segment before must end at it too.
+    unitPowerKw: spec.units.map((u, i) => (u.rampUpKwPerMin !== null || u.rampDownKwPerMin !== null) && start.units[i].on ? start.units[i].powerKw : null),
   };
   return { start, end };
 }
 
-/** A segment ended in the state its successor started from (SOC within a millionth of capacity). */
+/** A segment ended in the state its successor started from (SOC, levels and ramped outputs within a millionth of their range). */
 function metSeam(spec: ResolvedSiteSpec, state: WindowStartState, seam: Seam): boolean {
-  return sameState(spec, state, seam.start, (i) => 1e-6 * Math.max(1, spec.storage[i].capacityKwh));
+  return sameState(spec, state, seam.start, 1e-6);
 }
 
 /**

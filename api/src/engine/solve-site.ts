@@ -4,7 +4,7 @@ import type { BigMEntry } from './build-window-model';
 import { initialState } from './carry-state';
 import { chooseSolveMode } from './choose-solve-mode';
 import { mergeRanges, type CoefficientRanges } from './coefficient-ranges';
-import { evaluateObjective } from './evaluate-objective';
+import { objectiveTerms, sumTerms } from './evaluate-objective';
 import { monolithicWindow, rollingSegments } from './horizon-windows';
 import { precheckInfeasibility } from './precheck-infeasibility';
 import { createScheduleBuffers, toSchedule } from './schedule-buffers';
@@ -55,7 +55,7 @@ function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, ver
     bigM: [],
     reductions: { ...spec.solver.reductions },
     segments: 1,
-    scale: { powerKw: 1, money: 1 },
+    scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])) },
     buildSeconds: 0,
     solveSeconds: 0,
     solver: { name: 'HiGHS', version },
@@ -72,7 +72,7 @@ function mergeBigM(into: Map<string, number>, list: BigMEntry[]): void {
  * start with): counts and times summed, coefficient ranges and big-M values merged. Parallel
  * segments overlap in time, so the summed seconds measure effort and can exceed the wall time.
  */
-function addWindows(report: ModelReport, records: WindowRecord[]): void {
+function addWindows(spec: ResolvedSiteSpec, report: ModelReport, records: WindowRecord[]): void {
   const bigM = new Map<string, number>();
   let ranges: CoefficientRanges | null = null;
   const order = (r: WindowRecord) => (r.kind === 'window' ? 0 : 1);
@@ -95,7 +95,7 @@ function addWindows(report: ModelReport, records: WindowRecord[]): void {
     report.nonzeros += r.nonzeros;
     report.buildSeconds += r.buildSeconds;
     report.solveSeconds += r.solveSeconds;
-    report.scale = r.scale;
+    report.scale = { powerKw: r.scale.powerKw, money: r.scale.money, stores: Object.fromEntries(spec.stores.map((s, j) => [s.id, r.scale.stores[j]])) };
     ranges = mergeRanges(ranges, r.ranges);
     mergeBigM(bigM, r.bigM);
   }
@@ -181,12 +181,13 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions = {})
     solved = { records: end.records, failed: failedRecord(end), segments: 1 };
   }
   report.segments = solved.segments;
-  addWindows(report, solved.records);
+  addWindows(spec, report, solved.records);
   if (solved.failed) return noSchedule(solved.failed.result.outcome, failureWarnings(spec, solved.failed));
 
   const schedule = toSchedule(spec, buffers);
   const check = verifySchedule(spec, schedule);
   if (!check.ok) throw new ScheduleVerificationError(check.violations);
+  const terms = objectiveTerms(spec, buffers);
   // A schedule stitched from windows is feasible, never proved optimal for the whole horizon.
   const whole = solved.records.length === 1 && solved.records[0].window.steps === spec.horizon.steps;
   const single = whole ? solved.records[0].result : null;
@@ -194,11 +195,11 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions = {})
     status: 'succeeded',
     outcome: single?.outcome === 'optimal' ? 'optimal' : 'feasible',
     objective: {
-      value: evaluateObjective(spec, buffers),
+      value: sumTerms(terms),
       bound: single ? single.bound : null,
       gap: single ? single.gap : null,
     },
-    kpis: scheduleKpis(spec, buffers),
+    kpis: scheduleKpis(spec, buffers, terms),
     schedule,
     model: report,
     warnings,

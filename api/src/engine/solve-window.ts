@@ -1,12 +1,14 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning, SolveOutcome } from '@gridwright/shared/run-result';
 import { buildWindowModel, type BigMEntry } from './build-window-model';
+import type { Scales } from './choose-scales';
 import { coefficientRanges, type CoefficientRanges } from './coefficient-ranges';
 import { diagnoseInfeasibleSubsystem } from './diagnose-infeasible-subsystem';
 import { extractWindowSchedule } from './extract-window-schedule';
 import { planWindow, type ForcedBinaries, type HorizonWindow, type WindowStartState } from './plan-window';
 import { repairExclusivity } from './repair-exclusivity';
 import type { ScheduleBuffers } from './schedule-buffers';
+import { priceWindow } from './price-window';
 import { solveInBlocks } from './solve-in-blocks';
 import type { SolverPool } from './solver-pool';
 
@@ -30,7 +32,7 @@ export interface WindowSolve {
   nonzeros: number;
   ranges: CoefficientRanges;
   bigM: BigMEntry[];
-  scale: { powerKw: number; money: number };
+  scale: Scales;
   diagnosis: ResultWarning[];
 }
 
@@ -110,11 +112,13 @@ export async function solveWindow(
     const unrepaired = left.grid.length + left.storage.reduce((n, s) => n + s.length, 0);
     if (unrepaired === 0 || round === EXCLUSIVITY_ROUNDS - 1) {
       const proved = res.status === 'optimal' && !res.killedAtDeadline;
+      const priced = await priceWindow(opts.pool, plan, built, res.colValue, buffers, { deadlineMs, signal: opts.signal });
       return {
         ...base,
+        solveSeconds: solveSeconds + priced.workerSeconds,
         outcome: proved ? 'optimal' : 'feasible',
         gap: res.mipGap,
-        bound: res.dualBound === null ? null : res.dualBound * plan.scales.money,
+        bound: res.dualBound === null ? null : (res.dualBound + built.objectiveOffset) * plan.scales.money,
         diagnosis: [],
       };
     }

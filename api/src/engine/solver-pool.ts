@@ -28,6 +28,7 @@ export interface SolveJob {
   mipGap: number;
   mipAbsGap?: number;
   wantIis?: boolean;
+  wantDuals?: boolean;
   signal?: AbortSignal;
   onLog?: (line: string) => void;
 }
@@ -235,6 +236,7 @@ export class SolverPool {
               nodes: 0,
               runSeconds: timeLimitSeconds + graceSeconds(timeLimitSeconds),
               iis: null,
+              rowDual: null,
               killedAtDeadline: true,
               workerSeconds: elapsed(),
             }),
@@ -253,6 +255,7 @@ export class SolverPool {
         mipGap: job.mipGap,
         ...(job.mipAbsGap !== undefined ? { mipAbsGap: job.mipAbsGap } : {}),
         wantIis: job.wantIis ?? false,
+        wantDuals: job.wantDuals ?? false,
         wantLog: job.onLog !== undefined,
       };
       worker.postMessage(request);

@@ -13,6 +13,8 @@ export interface SolveRequest {
   wantIis: boolean;
   /** Forward HiGHS's log lines; off, HiGHS formats and posts none. */
   wantLog: boolean;
+  /** Return the row duals of an LP (∂objective/∂row bound, maximising). */
+  wantDuals: boolean;
 }
 
 export type SolveStatus = 'optimal' | 'infeasible' | 'time-limit' | 'unbounded' | 'error';
@@ -31,6 +33,8 @@ export interface SolveReply {
   nodes: number;
   runSeconds: number;
   iis: { rows: Int32Array; cols: Int32Array } | null;
+  /** Row duals of an LP solved to optimality when asked for; else null. */
+  rowDual: Float64Array | null;
 }
 
 export type WorkerMessage =

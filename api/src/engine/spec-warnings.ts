@@ -1,6 +1,8 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning } from '@gridwright/shared/run-result';
+import { demandChargeSteps } from './demand-charge-steps';
 import { precheckInfeasibility } from './precheck-infeasibility';
+import { unitRatings } from './unit-ratings';
 
 /** Ratios beyond this between the smallest and largest non-zero figure of one kind get a warning. */
 const SPREAD_LIMIT = 1e6;
@@ -24,12 +26,7 @@ function spread(values: number[]): [number, number] | null {
 export function specWarnings(spec: ResolvedSiteSpec): ResultWarning[] {
   const warnings = precheckInfeasibility(spec);
   const T = spec.horizon.steps;
-  let genRatings = 0;
-  let flexRatings = 0;
-  for (const u of spec.units) {
-    if (u.kind === 'generator') genRatings += u.ratingKw;
-    else flexRatings += u.ratingKw;
-  }
+  const { generatorKw: genRatings, flexibleKw: flexRatings } = unitRatings(spec);
   let charge = 0;
   let discharge = 0;
   for (const s of spec.storage) {
@@ -60,7 +57,21 @@ export function specWarnings(spec: ResolvedSiteSpec): ResultWarning[] {
     }
   });
 
-  const prices = [...spec.grid.importPrice, ...spec.grid.exportPrice, ...spec.units.flatMap((u) => [u.valuePerKwh, u.costPerKwh, u.startupCost])];
+  demandChargeSteps(spec).forEach((mask, c) => {
+    if (mask.includes(1)) return;
+    const charge = spec.grid.demandCharges[c];
+    warnings.push({
+      code: 'demand-charge-no-steps',
+      message: `Demand charge "${charge.id}" applies at no step of the horizon (${charge.window.from}–${charge.window.to} local time on weekdays ${charge.window.daysOfWeek.join(', ')}): it costs nothing in this run.`,
+      pointer: `/grid/demandCharges/${c}/window`,
+    });
+  });
+
+  const prices = [
+    ...spec.grid.importPrice,
+    ...spec.grid.exportPrice,
+    ...spec.units.flatMap((u) => [...u.curve.map((s) => s.perKwh), u.noLoadCostPerHour, u.startupCost.hot, u.startupCost.cold]),
+  ];
   const priceSpread = spread(prices);
   if (priceSpread) {
     warnings.push({

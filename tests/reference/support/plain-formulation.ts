@@ -108,7 +108,7 @@ export async function buildPlainModel(spec: ResolvedSiteSpec, options: PlainOpti
 
   spec.units.forEach((unit, i) => {
     const M = options.capacityBigM ?? unit.ratingKw;
-    const value = unit.kind === 'generator' ? -unit.costPerKwh : unit.valuePerKwh;
+    const value = unit.kind === 'generator' ? -unit.curve[0].perKwh : unit.curve[0].perKwh;
     const init = unit.initial.on ? 1 : 0;
     // Steps fixed by the initial state: still owed on-time or off-time.
     const owedOn = unit.initial.on ? Math.max(0, unit.minUpSteps - unit.initial.stepsInState) : 0;
@@ -118,7 +118,7 @@ export async function buildPlainModel(spec: ResolvedSiteSpec, options: PlainOpti
       binary(v.start(i, t));
       binary(v.stop(i, t));
       bound(v.p(i, t), 0, unit.ratingKw);
-      objective.push({ name: v.p(i, t), coef: dh * value }, { name: v.start(i, t), coef: -unit.startupCost });
+      objective.push({ name: v.p(i, t), coef: dh * value }, { name: v.start(i, t), coef: -unit.startupCost.hot });
       row(`cap_${i}_${t}`, [{ name: v.p(i, t), coef: 1 }, { name: v.on(i, t), coef: -M }], 'le', 0);
       row(`stab_${i}_${t}`, [{ name: v.p(i, t), coef: 1 }, { name: v.on(i, t), coef: -unit.minStableKw }], 'ge', 0);
       // start − stop − on_t + on_{t−1} = 0, with on_{−1} the initial state on the right.
@@ -227,6 +227,9 @@ export function scheduleFromValues(spec: ResolvedSiteSpec, value: (name: string)
       dischargeKw: steps.map((t) => value(v.d(j, t))),
       socKwh: steps.map((t) => value(v.soc(j, t))),
     }])),
+    stores: {},
+    reserve: null,
+    marginalValues: { energyPerKwh: steps.map(() => null), stores: {} },
   };
 }
 
