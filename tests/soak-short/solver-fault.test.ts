@@ -5,7 +5,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { SolverPool } from '../../api/src/engine/solver-pool';
-import { stopQueue } from '../../api/src/services/run-queue';
+import { stopQueue } from '../../api/src/services/job-queue';
 import { startWorkers } from '../../api/src/services/workers';
 import { newPool, waitAllTerminal } from '../soak/lib/harness';
 import { busySiteSpec, smallSiteSpec } from '../soak/lib/specs';

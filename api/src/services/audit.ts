@@ -2,6 +2,7 @@ import type { EntityManager } from 'typeorm';
 import type { Principal } from '../auth/principal';
 import type { AppContext } from '../context';
 import { AuditEvent } from '../db/entities/audit-event';
+import { User } from '../db/entities/user';
 import { paginateNewestFirst } from '../lib/pagination';
 
 export type AuditAction =
@@ -35,6 +36,12 @@ export const actorOf = (p: Principal | undefined, email?: string | null): AuditA
   apiKeyId: p?.apiKeyId ?? null,
   email: email ?? null,
 });
+
+/** The audit actor behind a request: its person (with their e-mail address) or its API key. */
+export async function auditActorOf(ctx: AppContext, principal: Principal | undefined): Promise<AuditActor> {
+  const email = principal?.userId ? (await ctx.db.getRepository(User).findOneBy({ id: principal.userId }))?.email : null;
+  return actorOf(principal, email);
+}
 
 export async function recordAudit(
   manager: EntityManager,

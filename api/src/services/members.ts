@@ -155,6 +155,18 @@ export async function inviteMember(
   return { invitation, link };
 }
 
+/** Withdraws an invitation not yet accepted; 404 for one of another tenant, accepted or already withdrawn. */
+export async function revokeInvitation(ctx: AppContext, tenantId: string, id: string): Promise<void> {
+  const result = await ctx.db
+    .getRepository(Invitation)
+    .createQueryBuilder()
+    .update()
+    .set({ revokedAt: () => 'now()' })
+    .where('id = :id AND tenant_id = :tenantId AND accepted_at IS NULL AND revoked_at IS NULL', { id, tenantId })
+    .execute();
+  if (!result.affected) throw notFound(`Invitation ${id}`);
+}
+
 const invalidToken = (what: string) =>
   new HttpProblem({
     status: 400,

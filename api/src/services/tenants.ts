@@ -5,6 +5,7 @@ import { Tenant, type LimitOverrides } from '../db/entities/tenant';
 import { paginateNewestFirst } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
 import { recordAudit, type AuditActor } from './audit';
+import { inviteMember } from './members';
 
 export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns'] as const;
 export type LimitName = (typeof LIMIT_NAMES)[number];
@@ -65,6 +66,18 @@ export async function createTenant(
     await recordAudit(m, { tenantId: tenant.id, action: 'tenant-created', actor, target: tenant.slug, details: { planId: plan.id } });
     return tenant;
   });
+}
+
+/** A new tenant and, when an owner's address is given, the invitation of its first owner. */
+export async function createTenantWithOwner(
+  ctx: AppContext,
+  input: { slug: string; name?: string; planId?: string; ownerEmail?: string },
+  actor: AuditActor,
+  invitedBy: string | null,
+): Promise<Tenant> {
+  const tenant = await createTenant(ctx, { slug: input.slug, name: input.name, planId: input.planId }, actor);
+  if (input.ownerEmail) await inviteMember(ctx, { tenantId: tenant.id, email: input.ownerEmail, role: 'owner', invitedBy }, actor);
+  return tenant;
 }
 
 export interface TenantChanges {

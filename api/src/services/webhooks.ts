@@ -5,8 +5,8 @@ import { Run } from '../db/entities/run';
 import { WebhookDelivery } from '../db/entities/webhook-delivery';
 import { WebhookEndpoint, type WebhookEvent } from '../db/entities/webhook-endpoint';
 import { notFound, validationProblem } from '../lib/problem';
-import { enqueueWebhookDelivery } from './run-queue';
-import { runLinks } from './run-view';
+import { enqueueWebhookDelivery } from './job-queue';
+import { runLinks } from '../runs/view';
 import { assertSafeWebhookUrl, UnsafeUrlError } from './ssrf-guard';
 
 export const WEBHOOK_EVENTS: readonly WebhookEvent[] = ['run.succeeded', 'run.failed', 'run.cancelled'];
