@@ -6,11 +6,10 @@ import type { DataSource } from 'typeorm';
 import { OutboxMessage } from '../db/entities/outbox-message';
 import type { Logger } from '../lib/logger';
 import { decodeEncodedWords, parseMimeMessage } from '../lib/parse-mime-message';
+import { isUuid } from '../lib/uuid';
 
 export const KIND_HEADER = 'x-gridwright-kind';
 export const TENANT_HEADER = 'x-gridwright-tenant';
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
 
 export interface LocalSmtpServer {
   port: number;
@@ -22,7 +21,7 @@ export async function storeReceivedMessage(db: DataSource, envelope: { from: str
   const tenant = parsed.headers.get(TENANT_HEADER) ?? '';
   await db.getRepository(OutboxMessage).insert({
     receivedAt: new Date(),
-    tenantId: UUID.test(tenant) ? tenant : null,
+    tenantId: isUuid(tenant) ? tenant : null,
     kind: parsed.headers.get(KIND_HEADER) ?? 'other',
     mailFrom: envelope.from,
     rcptTo: envelope.to,
