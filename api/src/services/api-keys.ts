@@ -1,10 +1,10 @@
 import { randomBytes } from 'node:crypto';
 import { IsNull } from 'typeorm';
-import type { Scope } from '../auth/principal';
 import type { AppContext } from '../context';
 import { ApiKey } from '../db/entities/api-key';
 import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import type { Scope } from '../lib/roles-and-scopes';
 import { safeEqual, sha256Hex } from '../lib/secret-tokens';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';

@@ -1,11 +1,11 @@
 import { IsNull, MoreThan, type EntityManager } from 'typeorm';
-import { TENANT_ROLES, type TenantRole } from '../auth/principal';
 import type { AppContext } from '../context';
 import { Invitation } from '../db/entities/invitation';
 import { Tenant } from '../db/entities/tenant';
 import { User } from '../db/entities/user';
 import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import { TENANT_ROLES, type TenantRole } from '../lib/roles-and-scopes';
 import { randomToken, sha256Hex } from '../lib/secret-tokens';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
