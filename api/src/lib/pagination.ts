@@ -14,7 +14,7 @@ export interface Page<T> {
 }
 
 /** Where the previous page ended: its last row's sort key (UTC, to the microsecond PostgreSQL keeps) and id. */
-export interface PageCursor {
+interface PageCursor {
   at: string;
   id: string;
 }
@@ -34,7 +34,7 @@ const notACursor = () => validationProblem([{ pointer: '/query/cursor', message:
  * Reads a cursor back, refusing with a 400 anything this API would not have issued. The calendar
  * check matters: JavaScript's Date turns 30 February into 1 March, PostgreSQL refuses it.
  */
-export function decodePageCursor(text: string): PageCursor {
+function decodePageCursor(text: string): PageCursor {
   let value: unknown;
   try {
     value = JSON.parse(Buffer.from(text, 'base64url').toString('utf8'));
