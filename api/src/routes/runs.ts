@@ -3,14 +3,13 @@ import type { RunStatus } from '@gridwright/shared/run-result';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { cancelRun } from '../runs/cancellation';
+import { delimiterNamed } from '../lib/csv-delimiters';
 import { getRun, listRunDeliveries, listRuns } from '../runs/reading';
 import { getRunSchedule, scheduleCsvFor, type ScheduleCsvChoices } from '../runs/schedule-export';
 import { submitRun } from '../runs/submission';
 import { runDetail, runSummary } from '../runs/view';
 import { parseIdempotencyKey } from '../services/idempotency';
 import { deliveryView } from '../services/webhooks';
-
-const DELIMITERS: Record<string, string> = { ',': ',', ';': ';', tab: '\t', '|': '|' };
 
 const actorOf = (req: Request) => {
   const p = req.principal!;
@@ -29,7 +28,7 @@ function csvChoices(req: Request): ScheduleCsvChoices {
     profile: q.profile,
     powerUnit: q.powerUnit as ScheduleCsvChoices['powerUnit'],
     timestamps: q.timestamps as ScheduleCsvChoices['timestamps'],
-    delimiter: q.delimiter ? DELIMITERS[q.delimiter] : undefined,
+    delimiter: q.delimiter ? delimiterNamed(q.delimiter) : undefined,
   };
 }
 

@@ -3,7 +3,7 @@ import type { Principal } from '../auth/principal';
 import type { AppContext } from '../context';
 import { AuditEvent } from '../db/entities/audit-event';
 import { User } from '../db/entities/user';
-import { paginateNewestFirst } from '../lib/pagination';
+import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 
 export type AuditAction =
   | 'sign-in'
@@ -61,11 +61,11 @@ export async function recordAudit(
 }
 
 /** `tenantId` null lists every tenant's events (operators). */
-export function listAuditEvents(ctx: AppContext, opts: { tenantId: string | null; action?: string; cursor?: string; limit?: number }) {
+export function listAuditEvents(ctx: AppContext, opts: PageQuery & { tenantId: string | null; action?: string }) {
   const qb = ctx.db.getRepository(AuditEvent).createQueryBuilder('e');
   if (opts.tenantId) qb.andWhere('e.tenant_id = :tenantId', { tenantId: opts.tenantId });
   if (opts.action) qb.andWhere('e.action = :action', { action: opts.action });
-  return paginateNewestFirst(qb, 'audit_events', opts);
+  return pageNewestFirst(qb, opts);
 }
 
 export const auditEventView = (e: AuditEvent) => ({

@@ -2,8 +2,9 @@ import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
 import { Plan } from '../db/entities/plan';
 import { Tenant, type LimitOverrides } from '../db/entities/tenant';
-import { paginateNewestFirst } from '../lib/pagination';
+import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
 import { inviteMember } from './members';
 
@@ -11,10 +12,8 @@ export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', '
 export type LimitName = (typeof LIMIT_NAMES)[number];
 export type TenantLimits = Record<LimitName, number>;
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 export async function findTenant(manager: EntityManager, id: string): Promise<Tenant | null> {
-  return UUID.test(id) ? manager.findOneBy(Tenant, { id }) : null;
+  return isUuid(id) ? manager.findOneBy(Tenant, { id }) : null;
 }
 
 export async function getTenantOr404(manager: EntityManager, id: string): Promise<Tenant> {
@@ -123,10 +122,10 @@ export async function setTenantSuspended(ctx: AppContext, id: string, suspend: b
   });
 }
 
-export function listTenants(ctx: AppContext, opts: { cursor?: string; limit?: number; q?: string }) {
+export function listTenants(ctx: AppContext, opts: PageQuery & { q?: string }) {
   const qb = ctx.db.getRepository(Tenant).createQueryBuilder('t');
   if (opts.q) qb.andWhere('(t.slug ILIKE :q OR t.name ILIKE :q)', { q: `%${opts.q.replace(/[\\%_]/g, (c) => '\\' + c)}%` });
-  return paginateNewestFirst(qb, 'tenants', opts);
+  return pageNewestFirst(qb, opts);
 }
 
 export async function tenantView(manager: EntityManager, tenant: Tenant) {

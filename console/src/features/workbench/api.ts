@@ -68,8 +68,6 @@ export function useUploadSeries() {
   return useMutation({ mutationFn: uploadSeries });
 }
 
-export type KeyChoice = Schemas['ApiKey'];
-
 export function listKeyChoices() {
   return unwrap(api.GET('/v1/api-keys', { params: { query: { limit: 200 } } }));
 }
