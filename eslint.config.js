@@ -96,12 +96,6 @@ export default tseslint.config(
     },
   },
   {
-    // These entities still take role and scope types from auth/; that import is being removed on another branch.
-    // Drop this exemption once it lands.
-    files: ['api/src/db/entities/api-key.ts', 'api/src/db/entities/invitation.ts', 'api/src/db/entities/user.ts'],
-    rules: { 'import-x/no-restricted-paths': ['error', { basePath: root, zones: layerZones }] },
-  },
-  {
     files: ['api/src/engine/**/*.{ts,mts,mjs}'],
     rules: {
       'no-restricted-imports': engineImportsNoIo,
