@@ -1,7 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { defaultSolverThreads } from './engine/solver-pool';
+import { defaultSolverThreads } from './solver/solver-threads';
 
 /** Every setting Gridwright reads, from the environment (the README's configuration table lists them). */
 export interface Config {

@@ -2,6 +2,7 @@ import PgBoss from 'pg-boss';
 import type { EntityManager } from 'typeorm';
 import type { Config } from '../config';
 import type { AppContext } from '../context';
+import { queueExpirySeconds } from '../engine/deadline';
 import type { Logger } from '../lib/logger';
 
 export const RUN_QUEUE = 'run-solve';
@@ -91,7 +92,7 @@ export async function enqueueRun(
     retryDelay: 0,
     deadLetter: RUN_DEAD_QUEUE,
     // Longer than the solver may legitimately take, so only a dead worker's job expires and is retried.
-    expireInSeconds: Math.ceil(run.timeLimitSeconds + ctx.config.runExpiryGraceSeconds),
+    expireInSeconds: queueExpirySeconds(run.timeLimitSeconds, ctx.config.runExpiryGraceSeconds),
   });
   if (!id) throw new Error(`the queue refused run ${run.id}`);
 }

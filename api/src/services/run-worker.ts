@@ -2,10 +2,11 @@ import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import type PgBoss from 'pg-boss';
 import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import type { RunResult } from '@gridwright/shared/run-result';
 import type { AppContext } from '../context';
-import { solveSite } from '../engine/solve-site';
-import { SolverPool } from '../engine/solver-pool';
+import { Deadline, workerHardStop } from '../engine/deadline';
+import { solveSite, type SiteSolution } from '../engine/solve-site';
+import type { SolverPort } from '../engine/solver-port';
+import { HighsSolverPool } from '../solver/highs-solver-pool';
 import { recordRunUsage } from './quotas';
 import { RUN_DEAD_QUEUE, RUN_QUEUE, startQueue, type RunJobData } from './run-queue';
 import { lookupSupplySeries } from './series-lookup';
@@ -27,7 +28,7 @@ interface Claimed {
 }
 
 type Ending =
-  | { status: 'succeeded' | 'failed'; result: RunResult; error: { code: string; message: string } | null }
+  | { status: 'succeeded' | 'failed'; result: SiteSolution; error: { code: string; message: string } | null }
   | { status: 'failed'; result: null; error: { code: string; message: string } }
   | { status: 'cancelled'; result: null; error: { code: string; message: string } };
 
@@ -38,9 +39,11 @@ type Ending =
  * Only crashes (the process dies, the database fails) make the job fail and be retried; every
  * outcome of the spec itself, good or bad, completes the job.
  */
-export async function solveRunJob(ctx: AppContext, runId: string, workerId: string, solve: SolveFn = solveSite, solver?: SolverPool): Promise<void> {
+export async function solveRunJob(ctx: AppContext, runId: string, workerId: string, solve: SolveFn = solveSite, solver: SolverPort): Promise<void> {
   const claimed = await claimRun(ctx, runId, workerId);
   if (!claimed) return;
+  // The run's time limit runs from its claim; every later clock derives from this (engine/deadline.ts).
+  const deadline = Deadline.after(claimed.timeLimitSeconds);
   if (claimed.cancelRequested) {
     await finishRun(ctx, runId, claimed, { status: 'cancelled', result: null, error: { code: 'cancelled', message: 'Cancelled while a worker held it.' } }, '', 0);
     return;
@@ -91,13 +94,14 @@ export async function solveRunJob(ctx: AppContext, runId: string, workerId: stri
   }, ctx.config.runCancelPollMs);
   // The engine's time limit is soft (HiGHS overshoots); this is the hard stop, well before the
   // queue job expires and would be retried as if the worker had died.
-  const hardLimitMs = (claimed.timeLimitSeconds + ctx.config.runExpiryGraceSeconds / 2) * 1000;
-  const watchdog = setTimeout(() => stop('time-limit'), hardLimitMs);
+  const hardStop = workerHardStop(deadline, ctx.config.runExpiryGraceSeconds);
+  const watchdog = setTimeout(() => stop('time-limit'), hardStop.remainingSeconds() * 1000);
 
   let ending: Ending;
   try {
     const result = await solve(resolved, {
       solver,
+      deadline,
       signal: abort.signal,
       onLog,
       onProgress: (p: { windowsDone: number; windowsTotal: number }) => {
@@ -121,7 +125,7 @@ export async function solveRunJob(ctx: AppContext, runId: string, workerId: stri
   await finishRun(ctx, runId, claimed, ending, log, (Date.now() - started) / 1000, progress);
 }
 
-function endingFor(result: RunResult): Ending {
+function endingFor(result: SiteSolution): Ending {
   if (result.outcome === 'optimal' || result.outcome === 'feasible') return { status: 'succeeded', result, error: null };
   const diagnosis = result.warnings.map((w) => w.message).join(' ');
   const message =
@@ -228,7 +232,7 @@ export async function startRunWorker(ctx: AppContext, opts: { concurrency?: numb
   const concurrency = Math.max(1, opts.concurrency ?? ctx.config.workerConcurrency);
   // One pool for every run this process takes: runs at once share its threads, never more.
   // Once stopped, its threads are ended as they fall idle; a run still solving goes on.
-  const solver = new SolverPool({ size: ctx.config.solverThreads });
+  const solver = new HighsSolverPool({ size: ctx.config.solverThreads });
   let stopped = false;
   const releaseIfStopped = () => {
     if (stopped) solver.releaseIdle();
