@@ -91,8 +91,8 @@ export interface WindowPlan {
 function looseSiteBound(spec: ResolvedSiteSpec): number {
   let total = spec.grid.importLimitKw + spec.grid.exportLimitKw;
   for (const v of spec.supply.availableKw) total = Math.max(total, v + spec.grid.importLimitKw + spec.grid.exportLimitKw);
-  const sums = ratingSums(spec);
-  total += sums.generatorKw + sums.flexibleLoadKw + sums.chargeKw + sums.dischargeKw;
+  for (const u of spec.units) total += u.ratingKw;
+  for (const s of spec.storage) total += s.maxChargeKw + s.maxDischargeKw;
   let maxLoad = 0;
   for (const v of spec.siteLoad.kw) if (v > maxLoad) maxLoad = v;
   return 10 * Math.max(1, total + maxLoad);

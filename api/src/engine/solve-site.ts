@@ -24,7 +24,7 @@ export type SiteSolution = Omit<RunResult, 'status'>;
 export interface SolveOptions {
   /** Solves every model; the engine runs up to its `concurrency` solves at once. */
   solver: SolverPort;
-  /** When the whole solve must end (deadline.ts); default: the spec's time limit from the call. */
+  /** When the whole solve must end (deadline.ts); default: the spec's time limit, from when the solver is ready. */
   deadline?: Deadline;
   /** Abort ⇒ every solve in flight is stopped and solveSite rejects with SolveAbortedError. */
   signal?: AbortSignal;
@@ -165,9 +165,10 @@ function failureWarnings(spec: ResolvedSiteSpec, failed: WindowRecord): ResultWa
  */
 export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Promise<SiteSolution> {
   const { solver } = opts;
+  const identity = await solver.describe();
   const deadline = opts.deadline ?? Deadline.after(spec.solver.timeLimitSeconds);
   const mode = chooseSolveMode(spec);
-  const report = emptyReport(mode, spec, await solver.describe());
+  const report = emptyReport(mode, spec, identity);
   const warnings = specWarnings(spec);
   const noSchedule = (outcome: SolveOutcome, extra: ResultWarning[]): SiteSolution => ({
     outcome,
