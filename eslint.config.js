@@ -103,10 +103,4 @@ export default tseslint.config(
       'no-restricted-syntax': ['error', { selector: 'ImportExpression', message: 'The engine loads no modules at run time.' }],
     },
   },
-  {
-    // The solver pool, the HiGHS worker thread and their message protocol are moving out to api/src/solver/ on
-    // another branch; until then they are the engine's only I/O. Drop this exemption when they have moved.
-    files: ['api/src/engine/solver-pool.ts', 'api/src/engine/highs-worker-main.ts', 'api/src/engine/highs-worker.mjs', 'api/src/engine/solver-protocol.ts'],
-    rules: { 'no-restricted-imports': 'off', 'no-restricted-syntax': 'off' },
-  },
 );

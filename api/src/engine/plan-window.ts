@@ -1,5 +1,7 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { chooseScales, type Scales } from './choose-scales';
+import { TINY } from './numerics';
+import { ratingSums, storageStepLimits } from './site-ratings';
 
 /** A slice of the horizon solved as one model. `commit` steps of it are kept. */
 export interface HorizonWindow {
@@ -97,17 +99,6 @@ function looseSiteBound(spec: ResolvedSiteSpec): number {
 }
 
 /**
- * The most power any storage can move in one step, limited by its SOC range as well as its
- * inverter (a step cannot charge more than fills it from its minimum).
- */
-function storageStepLimits(spec: ResolvedSiteSpec, dh: number) {
-  return spec.storage.map((s) => ({
-    charge: Math.min(s.maxChargeKw, (s.capacityKwh - s.minSocKwh) / (dh * s.chargeEfficiency)),
-    discharge: Math.min(s.maxDischargeKw, ((s.capacityKwh - s.minSocKwh) * s.dischargeEfficiency) / dh),
-  }));
-}
-
-/**
  * What island energy is worth to the site, used only to price energy left in storage at a
  * window's end: the fuel it saves, or the best flexible use, or the unserved-load penalty. A
  * hard load on an island without generators has no price, yet energy kept for it may be all
@@ -132,29 +123,25 @@ function energyValueAt(spec: ResolvedSiteSpec, t: number, island: number): numbe
   return island;
 }
 
-interface SiteFacts {
+/**
+ * What planning reads from the whole horizon. A solve computes it once and plans every window
+ * with it: a rolling year would otherwise rescan its 35 040 steps for each of its windows
+ * (measured: 4 ms a window).
+ */
+export interface SiteFacts {
   scales: Scales;
+  /** The big-M used where `tightBigM` is off (looseSiteBound). */
   loose: number;
+  /** What island energy is worth (islandEnergyValue); 0 without storage, which alone needs it. */
   island: number;
 }
 
-const siteFactsCache = new WeakMap<ResolvedSiteSpec, SiteFacts>();
-
-/**
- * What planning reads from the whole horizon, computed once per spec: a rolling year would
- * otherwise rescan its 35 040 steps for every one of its windows (measured: 4 ms a window).
- */
-function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
-  let facts = siteFactsCache.get(spec);
-  if (!facts) {
-    facts = {
-      scales: chooseScales(spec, spec.solver.reductions.scaling),
-      loose: looseSiteBound(spec),
-      island: spec.storage.length ? islandEnergyValue(spec) : 0,
-    };
-    siteFactsCache.set(spec, facts);
-  }
-  return facts;
+export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+  return {
+    scales: chooseScales(spec, spec.solver.reductions.scaling),
+    loose: looseSiteBound(spec),
+    island: spec.storage.length ? islandEnergyValue(spec) : 0,
+  };
 }
 
 function median(values: number[]): number {
@@ -176,6 +163,7 @@ export interface ForcedBinaries {
  */
 export function planWindow(
   spec: ResolvedSiteSpec,
+  facts: SiteFacts,
   window: HorizonWindow,
   start: WindowStartState,
   forced?: ForcedBinaries,
@@ -183,7 +171,7 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const { scales, loose, island } = siteFacts(spec);
+  const { scales, loose, island } = facts;
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
@@ -191,18 +179,7 @@ export function planWindow(
   // relaxation serves, and the MIP is left with the decisions that are actually kept.
   const integerSteps = window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
 
-  let genRatings = 0;
-  let flexRatings = 0;
-  for (const u of spec.units) {
-    if (u.kind === 'generator') genRatings += u.ratingKw;
-    else flexRatings += u.ratingKw;
-  }
-  let chargeTotal = 0;
-  let dischargeTotal = 0;
-  for (const l of limits) {
-    chargeTotal += l.charge;
-    dischargeTotal += l.discharge;
-  }
+  const sums = ratingSums(spec, limits);
 
   // What could reach a consumer (flexible load, storage charging, export) and what could be
   // absorbed from a producer (generator, import) at each step, from the balance row's bounds.
@@ -211,8 +188,8 @@ export function planWindow(
   for (let k = 0; k < n; k++) {
     const t = window.from + k;
     const load = spec.siteLoad.kw[t];
-    inflowExclImport[k] = spec.supply.availableKw[t] + genRatings + dischargeTotal - (hardLoad ? load : 0);
-    sink[k] = load + flexRatings + chargeTotal;
+    inflowExclImport[k] = spec.supply.availableKw[t] + sums.generatorKw + sums.dischargeKw - (hardLoad ? load : 0);
+    sink[k] = load + sums.flexibleLoadKw + sums.chargeKw;
   }
 
   let binariesBefore = 0;
@@ -265,7 +242,7 @@ export function planWindow(
         forcedOff[k] = 1;
         hasBinary[k] = reductions.sparseSets ? 0 : 1;
       } else {
-        hasBinary[k] = !reductions.sparseSets || tight >= u.minStableKw - 1e-9 ? 1 : 0;
+        hasBinary[k] = !reductions.sparseSets || tight >= u.minStableKw - TINY ? 1 : 0;
       }
     }
     const tail = window.endState?.unitTails[i] ?? new Uint8Array(0);

@@ -4,7 +4,8 @@ import { windowsBetween, type RollingSegment } from './horizon-windows';
 import type { HorizonWindow, WindowEndState, WindowStartState } from './plan-window';
 import { createScheduleBuffers } from './schedule-buffers';
 import { endedWithoutSchedule, failedRecord, solveBudgetedWindow, solveSequence, type SequenceEnd, type SolveContext, type WindowRecord } from './solve-sequence';
-import { SolveAbortedError } from './solver-pool';
+import { SEAM_SOC_TOLERANCE } from './numerics';
+import { SolveAbortedError } from './solver-port';
 
 export interface HorizonSolve {
   /** The windows that made the schedule, in step order, then the seam probes. */
@@ -51,9 +52,9 @@ async function probeSeam(ctx: SolveContext, b: number, probes: WindowRecord[]): 
   return { start, end };
 }
 
-/** A segment ended in the state its successor started from (SOC within a millionth of capacity). */
+/** A segment ended in the state its successor started from. */
 function metSeam(spec: ResolvedSiteSpec, state: WindowStartState, seam: Seam): boolean {
-  return sameState(spec, state, seam.start, (i) => 1e-6 * Math.max(1, spec.storage[i].capacityKwh));
+  return sameState(spec, state, seam.start, (i) => SEAM_SOC_TOLERANCE * Math.max(1, spec.storage[i].capacityKwh));
 }
 
 /**

@@ -1,14 +1,15 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning, SolveOutcome } from '@gridwright/shared/run-result';
 import { buildWindowModel, type BigMEntry } from './build-window-model';
-import { coefficientRanges, type CoefficientRanges } from './coefficient-ranges';
+import { coefficientRanges, rangesOutsideBand, type CoefficientRanges } from './coefficient-ranges';
+import type { Deadline } from './deadline';
 import { diagnoseInfeasibleSubsystem } from './diagnose-infeasible-subsystem';
 import { extractWindowSchedule } from './extract-window-schedule';
-import { planWindow, type ForcedBinaries, type HorizonWindow, type WindowStartState } from './plan-window';
+import { planWindow, type ForcedBinaries, type HorizonWindow, type SiteFacts, type WindowStartState } from './plan-window';
 import { repairExclusivity } from './repair-exclusivity';
 import type { ScheduleBuffers } from './schedule-buffers';
 import { solveInBlocks } from './solve-in-blocks';
-import type { SolverPool } from './solver-pool';
+import type { SolverPort } from './solver-port';
 
 /** Re-solves with the exclusivity binaries a relaxed solution could not do without; the last round keeps them all. */
 const EXCLUSIVITY_ROUNDS = 3;
@@ -29,14 +30,17 @@ export interface WindowSolve {
   constraints: number;
   nonzeros: number;
   ranges: CoefficientRanges;
+  /** The kinds of coefficient that left the healthy band (numerics.ts), checked before the solve. */
+  rangesOutsideBand: Partial<CoefficientRanges>;
   bigM: BigMEntry[];
   scale: { powerKw: number; money: number };
   diagnosis: ResultWarning[];
 }
 
 export interface WindowSolveOptions {
-  pool: SolverPool;
-  timeLimitSeconds: number;
+  solver: SolverPort;
+  /** The window's share of the run's time: its blocks and re-solves all end by it. */
+  deadline: Deadline;
   signal?: AbortSignal;
   onLog?: (line: string) => void;
 }
@@ -50,13 +54,13 @@ const now = () => performance.now() / 1000;
  */
 export async function solveWindow(
   spec: ResolvedSiteSpec,
+  facts: SiteFacts,
   window: HorizonWindow,
   start: WindowStartState,
   buffers: ScheduleBuffers,
   opts: WindowSolveOptions,
 ): Promise<WindowSolve> {
   const forced: ForcedBinaries = { storage: spec.storage.map(() => new Set<number>()), grid: new Set<number>() };
-  const deadlineMs = performance.now() + opts.timeLimitSeconds * 1000;
   let buildSeconds = 0;
   let solveSeconds = 0;
   for (let round = 0; ; round++) {
@@ -67,15 +71,16 @@ export async function solveWindow(
       }
     }
     const t0 = now();
-    const plan = planWindow(spec, window, start, forced);
+    const plan = planWindow(spec, facts, window, start, forced);
     const built = buildWindowModel(plan);
     buildSeconds += now() - t0;
+    const ranges = coefficientRanges(built.model);
+    const outside = rangesOutsideBand(ranges);
     const res = await solveInBlocks(
-      opts.pool,
+      opts.solver,
       built.model,
       {
-        timeLimitSeconds: opts.timeLimitSeconds,
-        deadlineMs,
+        deadline: opts.deadline,
         mipGap: spec.solver.mipGap,
         wantIis: built.model.numCols <= IIS_MAX_COLUMNS,
         signal: opts.signal,
@@ -93,7 +98,8 @@ export async function solveWindow(
       binariesBefore: plan.binariesBefore,
       constraints: built.model.numRows,
       nonzeros: built.model.values.length,
-      ranges: coefficientRanges(built.model),
+      ranges,
+      rangesOutsideBand: outside,
       bigM: built.bigM,
       scale: plan.scales,
     };
@@ -103,7 +109,7 @@ export async function solveWindow(
         return { ...base, outcome: 'infeasible', gap: null, bound: null, diagnosis };
       }
       if (res.status === 'time-limit') return { ...base, outcome: 'no-solution', gap: null, bound: null, diagnosis: [] };
-      throw new Error(`HiGHS ended with status ${res.status} (model status ${res.modelStatus}) on steps ${window.from}–${window.from + window.steps - 1}`);
+      throw new Error(`The solver ended with status ${res.status} (${res.solverStatus}) on steps ${window.from}–${window.from + window.steps - 1}`);
     }
     extractWindowSchedule(plan, built, res.colValue, buffers);
     const left = repairExclusivity(spec, buffers, window.from, window.from + window.commit);

@@ -2,7 +2,7 @@ import type PgBoss from 'pg-boss';
 import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
 import { createQueueRacing, onTransaction, startQueue } from '../services/job-queue';
-import { queueExpirySeconds } from './time-limits';
+import { queueExpirySeconds } from '../engine/deadline';
 
 export const RUN_QUEUE = 'run-solve';
 /** Runs whose worker crashed more often than the retry limit end up here and are marked failed. */

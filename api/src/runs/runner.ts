@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import type { AppContext } from '../context';
-import { SolverPool } from '../engine/solver-pool';
+import { HighsSolverPool } from '../solver/highs-solver-pool';
 import { announceEnding } from './events';
 import { RUN_DEAD_QUEUE, RUN_QUEUE, startRunQueue, type RunJobData } from './queue';
 import { superviseRun, type SolveFn } from './supervisor';
@@ -27,7 +27,7 @@ export async function startRunWorker(ctx: AppContext, opts: { concurrency?: numb
   const concurrency = Math.max(1, opts.concurrency ?? ctx.config.workerConcurrency);
   // One pool for every run this process takes: runs at once share its threads, never more.
   // Once stopped, its threads are ended as they fall idle; a run still solving goes on.
-  const solver = new SolverPool({ size: ctx.config.solverThreads });
+  const solver = new HighsSolverPool({ size: ctx.config.solverThreads });
   let stopped = false;
   const releaseIfStopped = () => {
     if (stopped) solver.releaseIdle();

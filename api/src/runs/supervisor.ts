@@ -1,12 +1,12 @@
 import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
+import { Deadline, workerHardStop } from '../engine/deadline';
 import { solveSite } from '../engine/solve-site';
-import type { SolverPool } from '../engine/solver-pool';
+import type { SolverPort } from '../engine/solver-port';
 import { recordRunUsage } from '../services/quotas';
 import { lookupSupplySeries } from '../services/series-lookup';
 import { announceEnding } from './events';
-import { watchdogMs } from './time-limits';
 import {
   cancelRunningRun,
   claimRun,
@@ -30,7 +30,7 @@ export interface Supervision {
   /** Written into `runs.worker_id`: which process holds the run. */
   workerId: string;
   solve?: SolveFn;
-  solver?: SolverPool;
+  solver: SolverPort;
 }
 
 type StopReason = 'cancelled' | 'superseded' | 'time-limit';
@@ -49,6 +49,8 @@ const UNSOLVED: AttemptReport = { log: '', solverSeconds: 0, progress: null };
 export async function superviseRun(ctx: AppContext, runId: string, { workerId, solve = solveSite, solver }: Supervision): Promise<void> {
   const claimed = (await claimRun(ctx.db, runId, workerId)) ?? (await takeOverRun(ctx.db, runId, workerId));
   if (!claimed) return;
+  // The run's time limit runs from its claim; every later clock derives from this (engine/deadline.ts).
+  const deadline = Deadline.after(claimed.timeLimitSeconds);
   if (claimed.cancelRequested) {
     await conclude(ctx, claimed, UNSOLVED, (m, r) => cancelRunningRun(m, claimed, 'Cancelled while a worker held it.', r));
     return;
@@ -88,12 +90,15 @@ export async function superviseRun(ctx: AppContext, runId: string, { workerId, s
   const poll = setInterval(() => {
     watch().catch((err) => ctx.log.warn({ err, runId }, 'run watch failed'));
   }, ctx.config.runCancelPollMs);
-  const watchdog = setTimeout(() => stop('time-limit'), watchdogMs(claimed.timeLimitSeconds, ctx.config.runExpiryGraceSeconds));
+  // HiGHS's own limit is soft; this hard stop comes well before the queue job expires.
+  const hardStop = workerHardStop(deadline, ctx.config.runExpiryGraceSeconds);
+  const watchdog = setTimeout(() => stop('time-limit'), hardStop.remainingSeconds() * 1000);
 
   let ending: Ending;
   try {
     const result = await solve(resolved, {
       solver,
+      deadline,
       signal: abort.signal,
       onLog,
       onProgress: (p: Progress) => {

@@ -1,4 +1,4 @@
-import type { RunResult } from '@gridwright/shared/run-result';
+import type { SiteSolution } from '../engine/solve-site';
 import type { EntityManager } from 'typeorm';
 import { fromStates, RUN_TRANSITIONS, type FinishedStatus } from './states';
 
@@ -126,7 +126,7 @@ async function endAttempt(
   claimed: ClaimedRun,
   transition: 'finish' | 'fail' | 'cancelRunning',
   status: FinishedStatus,
-  result: RunResult | null,
+  result: SiteSolution | null,
   error: RunError | null,
   report: AttemptReport,
 ): Promise<EndedRun | null> {
@@ -160,7 +160,7 @@ async function endAttempt(
  * diagnosis when the spec is infeasible or no schedule was found in time. Null when the attempt was
  * superseded or the run already ended: a run is never finished twice.
  */
-export function finishRun(db: RunDb, claimed: ClaimedRun, result: RunResult, report: AttemptReport): Promise<EndedRun | null> {
+export function finishRun(db: RunDb, claimed: ClaimedRun, result: SiteSolution, report: AttemptReport): Promise<EndedRun | null> {
   if (result.outcome === 'optimal' || result.outcome === 'feasible') return endAttempt(db, claimed, 'finish', 'succeeded', result, null, report);
   const diagnosis = result.warnings.map((w) => w.message).join(' ');
   const message =
