@@ -1,7 +1,7 @@
 import { loadConfig, type Config } from './config';
 import type { AppContext } from './context';
 import { createDataSource } from './db/data-source';
-import { createBoss } from './services/run-queue';
+import { createBoss } from './services/job-queue';
 import { createLogger } from './lib/logger';
 import { createMetrics } from './lib/metrics';
 import { createMailer } from './services/mailer';

@@ -1,61 +1,87 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { defaultSolverThreads } from './engine/solver-pool';
+import { z } from 'zod';
+import { defaultSolverThreads } from './solver/solver-threads';
 
-/** Every setting Gridwright reads, from the environment (the README's configuration table lists them). */
-export interface Config {
-  nodeEnv: string;
-  production: boolean;
-  databaseUrl: string;
-  host: string;
-  port: number;
-  publicUrl: string;
-  dataDir: string;
-  logLevel: string;
-  bodyLimit: string;
-  jwtSecret: string;
-  sessionMinutes: number;
-  cookieSecure: boolean;
-  trustProxy: boolean;
-  smtpUrl: string | null;
-  mailFrom: string;
-  workerConcurrency: number;
-  /** SOLVER_THREADS: HiGHS threads a worker process shares among its runs (parallel segments and blocks). */
-  solverThreads: number;
-  webhookAllowLoopback: boolean;
-  idempotencyHours: number;
-  seedDemo: boolean;
-  /** Port of the loopback SMTP server started when SMTP_URL is unset (LOCAL_SMTP_PORT; 0 = any free port). */
-  localSmtpPort: number;
-  /** RATE_LIMIT_WINDOW_SECONDS: a credential may send `requestsPerSecond × this` requests per window of this many seconds, the tenant three times that. */
-  rateLimitWindowSeconds: number;
-  /** SIGNIN_MAX_FAILURES: failed sign-ins per account before it is locked; per address the limit is ten times this. */
-  signInMaxFailures: number;
-  /** How long a locked account or address stays locked (SIGNIN_LOCK_MINUTES). */
-  signInLockMinutes: number;
-  /** Lifetime of an invitation link (INVITATION_HOURS). */
-  invitationHours: number;
-  /** Lifetime of a password-reset link (PASSWORD_RESET_MINUTES). */
-  passwordResetMinutes: number;
-  /** bcrypt cost for stored passwords (BCRYPT_ROUNDS; 12, or 4 under NODE_ENV=test). */
-  bcryptRounds: number;
-  /** DEFAULT_PLAN: the plan a tenant gets when none is named. */
-  defaultPlan: string;
-  /** A run's queue job expires (and is retried, as after a crash) this long after its solver time limit. */
-  runExpiryGraceSeconds: number;
-  /** How often pg-boss looks for expired jobs; bounds how soon a crashed worker's run is picked up again. */
-  queueMaintenanceSeconds: number;
-  queuePollingSeconds: number;
-  runRetryLimit: number;
-  runCancelPollMs: number;
-  webhookTimeoutMs: number;
-  webhookMaxResponseBytes: number;
-  webhookRetryLimit: number;
-  webhookRetryDelaySeconds: number;
-  webhookDisableAfterFailures: number;
-  seriesMaxBytes: number;
+const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
+
+function wholeNumber(min: number, max?: number) {
+  const accepts = max === undefined ? `must be a whole number, at least ${min}` : `must be a whole number from ${min} to ${max}`;
+  return z
+    .string()
+    .refine((text) => /^\s*[+-]?\d+\s*$/.test(text) && Number(text) >= min && (max === undefined || Number(text) <= max), accepts)
+    .transform(Number);
 }
+
+function decimalNumber(opts: { min: number } | { above: number }) {
+  const accepts = 'min' in opts ? `must be a number, at least ${opts.min}` : `must be a number above ${opts.above}`;
+  const inRange = (n: number) => ('min' in opts ? n >= opts.min : n > opts.above);
+  return z
+    .string()
+    .refine((text) => /^\s*[+-]?(\d+\.?\d*|\.\d+)\s*$/.test(text) && inRange(Number(text)), accepts)
+    .transform(Number);
+}
+
+const flag = z.enum(['true', 'false'], { error: 'must be true or false' }).transform((value) => value === 'true');
+
+/**
+ * Every environment variable Gridwright reads: what it accepts and its default. The README's
+ * configuration table lists the same variables and defaults (a test compares them). Defaults that
+ * follow from other settings (production, the host and port, the machine's cores) are filled in by
+ * `loadConfig`.
+ */
+export const environmentSchema = z
+  .object({
+    NODE_ENV: z.enum(['development', 'test', 'production'], { error: 'must be development, test or production' }).default('development'),
+    PORT: wholeNumber(0, 65_535).default(8080),
+    HOST: z.string().default('127.0.0.1'),
+    DATABASE_URL: z.string({ error: 'is not set (npm start sets it for the local cluster)' }),
+    GRIDWRIGHT_DATA: z.string().default('.data'),
+    PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'must be an http:// or https:// URL' }).optional(),
+    LOG_LEVEL: z.enum(LOG_LEVELS, { error: `must be one of ${LOG_LEVELS.join(', ')}` }).optional(),
+    BODY_LIMIT: z
+      .string()
+      .regex(/^\d+(\.\d+)?\s*(b|kb|mb|gb)?$/i, 'must be a size in bytes, or with a unit: 64kb, 8mb')
+      .default('8mb'),
+    JWT_SECRET: z.string().optional(),
+    SESSION_MINUTES: wholeNumber(1).default(60),
+    COOKIE_SECURE: flag.optional(),
+    TRUST_PROXY: flag.default(false),
+    SMTP_URL: z.url({ protocol: /^smtps?$/, error: 'must be an smtp:// or smtps:// URL' }).optional(),
+    LOCAL_SMTP_PORT: wholeNumber(0, 65_535).default(0),
+    MAIL_FROM: z.string().default('Gridwright <no-reply@gridwright.local>'),
+    SEED_DEMO: flag.optional(),
+    DEFAULT_PLAN: z.string().default('pilot'),
+    // bcrypt's own range of costs.
+    BCRYPT_ROUNDS: wholeNumber(4, 31).optional(),
+    SIGNIN_MAX_FAILURES: wholeNumber(1).default(5),
+    SIGNIN_LOCK_MINUTES: wholeNumber(1).default(15),
+    INVITATION_HOURS: decimalNumber({ above: 0 }).default(72),
+    PASSWORD_RESET_MINUTES: decimalNumber({ above: 0 }).default(60),
+    RATE_LIMIT_WINDOW_SECONDS: wholeNumber(1).default(10),
+    WORKER_CONCURRENCY: wholeNumber(1).default(1),
+    SOLVER_THREADS: wholeNumber(1).optional(),
+    IDEMPOTENCY_HOURS: decimalNumber({ above: 0 }).default(24),
+    RUN_EXPIRY_GRACE_SECONDS: decimalNumber({ min: 0 }).default(120),
+    RUN_RETRY_LIMIT: wholeNumber(0).default(3),
+    RUN_CANCEL_POLL_MS: wholeNumber(1).default(500),
+    // pg-boss refuses a maintenance interval under one second and polling more often than twice a second.
+    QUEUE_MAINTENANCE_SECONDS: wholeNumber(1).default(30),
+    QUEUE_POLLING_SECONDS: decimalNumber({ min: 0.5 }).default(1),
+    WEBHOOK_ALLOW_LOOPBACK: flag.default(false),
+    WEBHOOK_TIMEOUT_MS: wholeNumber(1).default(10_000),
+    WEBHOOK_MAX_RESPONSE_BYTES: wholeNumber(1).default(65_536),
+    WEBHOOK_RETRY_LIMIT: wholeNumber(0).default(8),
+    WEBHOOK_RETRY_DELAY_SECONDS: wholeNumber(0).default(30),
+    WEBHOOK_DISABLE_AFTER_FAILURES: wholeNumber(1).default(20),
+    SERIES_MAX_BYTES: wholeNumber(1).default(5 * 1024 * 1024),
+  })
+  .superRefine((env, ctx) => {
+    if (env.NODE_ENV === 'production' && env.JWT_SECRET === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['JWT_SECRET'], message: 'must be set when NODE_ENV=production' });
+    }
+  });
 
 function localSecret(dataDir: string): string {
   const file = path.join(dataDir, 'jwt-secret');
@@ -66,53 +92,67 @@ function localSecret(dataDir: string): string {
   return secret;
 }
 
-export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
-  const nodeEnv = env.NODE_ENV ?? 'development';
-  const production = nodeEnv === 'production';
-  const port = Number(env.PORT ?? 8080);
-  const host = env.HOST ?? '127.0.0.1';
-  const dataDir = path.resolve(env.GRIDWRIGHT_DATA ?? '.data');
-  if (!env.DATABASE_URL) throw new Error('DATABASE_URL is not set (npm start sets it for the local cluster).');
-  if (production && !env.JWT_SECRET) throw new Error('JWT_SECRET must be set when NODE_ENV=production.');
+/** Reads and checks the environment; an invalid or missing value stops start-up with a message naming each variable at fault and what it accepts. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
+  // An empty value counts as unset, as a shell's `PORT=` means.
+  const given = Object.fromEntries(Object.entries(env).filter(([, value]) => value !== undefined && value !== ''));
+  const parsed = environmentSchema.safeParse(given);
+  if (!parsed.success) {
+    // Values are not repeated: some carry credentials.
+    throw new Error(`Invalid configuration:\n${parsed.error.issues.map((issue) => `  ${String(issue.path[0])} ${issue.message}`).join('\n')}`);
+  }
+  const e = parsed.data;
+  const production = e.NODE_ENV === 'production';
+  const test = e.NODE_ENV === 'test';
+  const dataDir = path.resolve(e.GRIDWRIGHT_DATA);
   return {
-    nodeEnv,
+    nodeEnv: e.NODE_ENV,
     production,
-    databaseUrl: env.DATABASE_URL,
-    host,
-    port,
-    publicUrl: (env.PUBLIC_URL ?? `http://${host}:${port}`).replace(/\/$/, ''),
+    databaseUrl: e.DATABASE_URL,
+    host: e.HOST,
+    port: e.PORT,
+    publicUrl: (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
     dataDir,
-    logLevel: env.LOG_LEVEL ?? (nodeEnv === 'test' ? 'silent' : 'info'),
-    bodyLimit: env.BODY_LIMIT ?? '8mb',
-    jwtSecret: env.JWT_SECRET ?? localSecret(dataDir),
-    sessionMinutes: Number(env.SESSION_MINUTES ?? 60),
-    cookieSecure: env.COOKIE_SECURE ? env.COOKIE_SECURE === 'true' : production,
-    trustProxy: env.TRUST_PROXY === 'true',
-    smtpUrl: env.SMTP_URL ?? null,
-    mailFrom: env.MAIL_FROM ?? 'Gridwright <no-reply@gridwright.local>',
-    workerConcurrency: Number(env.WORKER_CONCURRENCY ?? 1),
-    solverThreads: Math.max(1, Math.floor(Number(env.SOLVER_THREADS ?? defaultSolverThreads()))),
-    webhookAllowLoopback: env.WEBHOOK_ALLOW_LOOPBACK === 'true',
-    idempotencyHours: Number(env.IDEMPOTENCY_HOURS ?? 24),
-    seedDemo: env.SEED_DEMO ? env.SEED_DEMO === 'true' : !production,
-    localSmtpPort: Number(env.LOCAL_SMTP_PORT ?? 0),
-    rateLimitWindowSeconds: Number(env.RATE_LIMIT_WINDOW_SECONDS ?? 10),
-    signInMaxFailures: Number(env.SIGNIN_MAX_FAILURES ?? 5),
-    signInLockMinutes: Number(env.SIGNIN_LOCK_MINUTES ?? 15),
-    invitationHours: Number(env.INVITATION_HOURS ?? 72),
-    passwordResetMinutes: Number(env.PASSWORD_RESET_MINUTES ?? 60),
-    bcryptRounds: Number(env.BCRYPT_ROUNDS ?? (nodeEnv === 'test' ? 4 : 12)),
-    defaultPlan: env.DEFAULT_PLAN ?? 'pilot',
-    runExpiryGraceSeconds: Number(env.RUN_EXPIRY_GRACE_SECONDS ?? 120),
-    queueMaintenanceSeconds: Number(env.QUEUE_MAINTENANCE_SECONDS ?? 30),
-    queuePollingSeconds: Number(env.QUEUE_POLLING_SECONDS ?? 1),
-    runRetryLimit: Number(env.RUN_RETRY_LIMIT ?? 3),
-    runCancelPollMs: Number(env.RUN_CANCEL_POLL_MS ?? 500),
-    webhookTimeoutMs: Number(env.WEBHOOK_TIMEOUT_MS ?? 10_000),
-    webhookMaxResponseBytes: Number(env.WEBHOOK_MAX_RESPONSE_BYTES ?? 65_536),
-    webhookRetryLimit: Number(env.WEBHOOK_RETRY_LIMIT ?? 8),
-    webhookRetryDelaySeconds: Number(env.WEBHOOK_RETRY_DELAY_SECONDS ?? 30),
-    webhookDisableAfterFailures: Number(env.WEBHOOK_DISABLE_AFTER_FAILURES ?? 20),
-    seriesMaxBytes: Number(env.SERIES_MAX_BYTES ?? 5 * 1024 * 1024),
+    logLevel: e.LOG_LEVEL ?? (test ? 'silent' : 'info'),
+    bodyLimit: e.BODY_LIMIT,
+    jwtSecret: e.JWT_SECRET ?? localSecret(dataDir),
+    sessionMinutes: e.SESSION_MINUTES,
+    cookieSecure: e.COOKIE_SECURE ?? production,
+    trustProxy: e.TRUST_PROXY,
+    smtpUrl: e.SMTP_URL ?? null,
+    mailFrom: e.MAIL_FROM,
+    workerConcurrency: e.WORKER_CONCURRENCY,
+    /** HiGHS threads a worker process shares among its runs (parallel segments and blocks). */
+    solverThreads: e.SOLVER_THREADS ?? defaultSolverThreads(),
+    webhookAllowLoopback: e.WEBHOOK_ALLOW_LOOPBACK,
+    idempotencyHours: e.IDEMPOTENCY_HOURS,
+    seedDemo: e.SEED_DEMO ?? !production,
+    /** Port of the loopback SMTP server started when SMTP_URL is unset (0 = any free port). */
+    localSmtpPort: e.LOCAL_SMTP_PORT,
+    /** A credential may send `requestsPerSecond × this` requests per window of this many seconds, the tenant three times that. */
+    rateLimitWindowSeconds: e.RATE_LIMIT_WINDOW_SECONDS,
+    /** Failed sign-ins per account before it is locked; per address the limit is ten times this. */
+    signInMaxFailures: e.SIGNIN_MAX_FAILURES,
+    signInLockMinutes: e.SIGNIN_LOCK_MINUTES,
+    invitationHours: e.INVITATION_HOURS,
+    passwordResetMinutes: e.PASSWORD_RESET_MINUTES,
+    bcryptRounds: e.BCRYPT_ROUNDS ?? (test ? 4 : 12),
+    defaultPlan: e.DEFAULT_PLAN,
+    /** A run's queue job expires (and is retried, as after a crash) this long after its solver time limit. */
+    runExpiryGraceSeconds: e.RUN_EXPIRY_GRACE_SECONDS,
+    /** How often pg-boss looks for expired jobs; bounds how soon a crashed worker's run is picked up again. */
+    queueMaintenanceSeconds: e.QUEUE_MAINTENANCE_SECONDS,
+    queuePollingSeconds: e.QUEUE_POLLING_SECONDS,
+    runRetryLimit: e.RUN_RETRY_LIMIT,
+    runCancelPollMs: e.RUN_CANCEL_POLL_MS,
+    webhookTimeoutMs: e.WEBHOOK_TIMEOUT_MS,
+    webhookMaxResponseBytes: e.WEBHOOK_MAX_RESPONSE_BYTES,
+    webhookRetryLimit: e.WEBHOOK_RETRY_LIMIT,
+    webhookRetryDelaySeconds: e.WEBHOOK_RETRY_DELAY_SECONDS,
+    webhookDisableAfterFailures: e.WEBHOOK_DISABLE_AFTER_FAILURES,
+    seriesMaxBytes: e.SERIES_MAX_BYTES,
   };
 }
+
+/** Every setting Gridwright reads, from the environment. */
+export type Config = ReturnType<typeof loadConfig>;

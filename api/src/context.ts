@@ -13,6 +13,6 @@ export interface AppContext {
   metrics: Metrics;
   /** Outgoing e-mail (nodemailer), and the loopback SMTP server when SMTP_URL is unset. */
   mailer: Mailer;
-  /** The job queue in the same PostgreSQL; started on first use (services/run-queue.ts). */
+  /** The job queue in the same PostgreSQL; started on first use (services/job-queue.ts). */
   boss: PgBoss;
 }

@@ -3,7 +3,7 @@ import { createContext } from './bootstrap';
 import { startServer } from './server';
 import { seedDemoRuns } from './services/demo-runs';
 import { describeDemoSeed, seedDemo } from './services/demo-seed';
-import { stopQueue } from './services/run-queue';
+import { stopQueue } from './services/job-queue';
 import { startWorkers } from './services/workers';
 import { surviveDatabaseOutages } from './lib/survive-database-outages';
 

@@ -1,7 +1,7 @@
 // `npm run worker`: a standalone solver worker. Start as many as the load needs, on any host that
 // reaches the database; pg-boss hands each run to exactly one of them.
 import { createContext } from './bootstrap';
-import { stopQueue } from './services/run-queue';
+import { stopQueue } from './services/job-queue';
 import { startWorkers } from './services/workers';
 import { surviveDatabaseOutages } from './lib/survive-database-outages';
 

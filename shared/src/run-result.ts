@@ -1,6 +1,7 @@
 /** The result of a run (SPEC.md §3): what `GET /v1/runs/{id}` returns once succeeded and the CLI prints. */
 
-export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed' | 'cancelled';
+export const RUN_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
+export type RunStatus = (typeof RUN_STATUSES)[number];
 /** `no-solution`: the time limit was hit before any feasible schedule was found. */
 export type SolveOutcome = 'optimal' | 'feasible' | 'infeasible' | 'no-solution';
 

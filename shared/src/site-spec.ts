@@ -4,6 +4,7 @@
  * Isomorphic on purpose — no node imports.
  */
 import { z } from 'zod';
+import { buildPointer, parsePointer } from './json-pointer';
 
 export const MAX_STEPS = 35_136;
 export const MAX_UNITS = 50;
@@ -252,12 +253,6 @@ export interface SpecIssue {
   message: string;
 }
 
-/** RFC 6901 pointer from path segments (`~` → `~0`, `/` → `~1`). */
-export function jsonPointer(segments: ReadonlyArray<PropertyKey>): string {
-  if (segments.length === 0) return '';
-  return '/' + segments.map((s) => String(s).replace(/~/g, '~0').replace(/\//g, '~1')).join('/');
-}
-
 /** The rules that relate one field to another (SPEC.md §1 and §5 limits that zod shapes cannot express). */
 export function crossFieldIssues(spec: BaseSpec): SpecIssue[] {
   const issues: SpecIssue[] = [];
@@ -391,10 +386,7 @@ export const siteSpecSchema = baseSchema.superRefine((spec, ctx) => {
 });
 
 function pointerToPath(pointer: string): (string | number)[] {
-  return pointer
-    .split('/')
-    .slice(1)
-    .map((s) => (/^\d+$/.test(s) ? Number(s) : s.replace(/~1/g, '/').replace(/~0/g, '~')));
+  return parsePointer(pointer).map((s) => (/^\d+$/.test(s) ? Number(s) : s));
 }
 
 /** The spec as submitted (supply may still name an uploaded series). */
@@ -552,7 +544,7 @@ export function validateSiteSpec(input: unknown, limits: SpecLimits = {}): SpecV
   const parsed = siteSpecSchema.safeParse(input);
   if (!parsed.success) {
     const errors = parsed.error.issues.slice(0, MAX_REPORTED_ERRORS).map((issue) => ({
-      pointer: jsonPointer(issue.path),
+      pointer: buildPointer(issue.path),
       message: issue.message,
     }));
     return { ok: false, errors };

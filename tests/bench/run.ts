@@ -12,10 +12,10 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import type { RunResult } from '@gridwright/shared/run-result';
-import { solveSite } from '../../api/src/engine/solve-site';
-import { defaultSolverThreads, SolverPool } from '../../api/src/engine/solver-pool';
+import { solveSite, type SiteSolution } from '../../api/src/engine/solve-site';
 import { verifySchedule } from '../../api/src/engine/verify-schedule';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { solvePlain } from '../reference/support/plain-formulation';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/support/specs';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
@@ -34,6 +34,8 @@ interface Row {
   note: string;
 }
 
+/** The solver every section shares, as one worker process shares its threads among its runs. */
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
 const rows: Row[] = [];
 const loadAtStart = os.loadavg()[0];
 const summary: string[] = [];
@@ -48,14 +50,14 @@ function log(line: string): void {
 }
 
 /** Every engine result in the bench must pass the independent verifier, or the figure is void. */
-function checked(spec: ResolvedSiteSpec, r: RunResult): RunResult {
+function checked(spec: ResolvedSiteSpec, r: SiteSolution): SiteSolution {
   if (!r.schedule) return r;
   const v = verifySchedule(spec, r.schedule);
   if (!v.ok) throw new Error(`bench schedule failed verification: ${v.violations[0].message}`);
   return r;
 }
 
-function engineRow(section: string, variant: string, r: RunResult, wallS: number, note: string): Row {
+function engineRow(section: string, variant: string, r: SiteSolution, wallS: number, note: string): Row {
   return {
     section,
     variant,
@@ -70,9 +72,9 @@ function engineRow(section: string, variant: string, r: RunResult, wallS: number
 }
 
 /** Solves, checks the schedule, and measures the wall time from the call to the verified result. */
-async function timed(spec: ResolvedSiteSpec): Promise<{ r: RunResult; seconds: number }> {
+async function timed(spec: ResolvedSiteSpec): Promise<{ r: SiteSolution; seconds: number }> {
   const started = performance.now();
-  const r = checked(spec, await solveSite(spec));
+  const r = checked(spec, await solveSite(spec, { solver }));
   return { r, seconds: (performance.now() - started) / 1000 };
 }
 
@@ -88,7 +90,7 @@ async function reductionsSection(): Promise<void> {
   const section = `Reductions: ${days} d × 15 min solar-only, 3 units${quick ? '' : ` (best of ${repeats})`}`;
   const gap = spec.solver.mipGap;
   const run = async (label: string, reductions: ResolvedSiteSpec['solver']['reductions']) => {
-    let best: { label: string; r: RunResult; seconds: number } | null = null;
+    let best: { label: string; r: SiteSolution; seconds: number } | null = null;
     for (let i = 0; i < repeats; i++) {
       log(`reductions: ${label} (${i + 1}/${repeats})`);
       const { r, seconds } = await timed(monolithic(spec, reductions, gap));
@@ -149,7 +151,7 @@ async function rollingSection(): Promise<void> {
     ['one sequence, relaxed lookahead', { segmentWindows: 0, lookahead: 'relaxed' }],
     [`segments of ${quick ? 4 : 32} windows, relaxed lookahead (default)`, { segmentWindows: quick ? 4 : 32, lookahead: 'relaxed' }],
   ];
-  let plain: { r: RunResult; seconds: number } | null = null;
+  let plain: { r: SiteSolution; seconds: number } | null = null;
   for (const [label, window] of designs) {
     log(`rolling design: ${label}`);
     const d = await timed({ ...quarter, solver: { ...quarter.solver, mode: 'rolling', timeLimitSeconds: 900, window: { ...quarter.solver.window, ...window } } });
@@ -205,7 +207,7 @@ async function memorySection(): Promise<void> {
   const total = quick ? 300 : 5000;
   const every = quick ? 100 : 1000;
   // One worker for the whole run (no recycling), so growth of one WebAssembly instance shows.
-  const pool = new SolverPool({ size: 1, solvesPerWorker: total + 1 });
+  const pool = new HighsSolverPool({ size: 1, solvesPerWorker: total + 1 });
   const spec = smallSite(4, 9);
   const section = `Memory: ${total} consecutive ${spec.horizon.steps}-step solves, one worker`;
   try {
@@ -260,9 +262,9 @@ async function main(): Promise<void> {
   // while, so the first sizeable solve of a process took 3–6× longer than the same solve
   // repeated (measured on the reductions site). Without this the section measured first pays for it.
   // Every solver thread is warmed: the week split into days keeps all of them busy.
-  await solveSite(smallSite(6));
-  for (let i = 0; i < (quick ? 1 : 3); i++) await solveSite(monolithic(solarWeekSite(), ALL_REDUCTIONS_ON, 1e-4));
-  await solveSite(monolithic(cutSteps(gridTiedSite(2, 15), 144), ALL_REDUCTIONS_OFF, 1e-3));
+  await solveSite(smallSite(6), { solver });
+  for (let i = 0; i < (quick ? 1 : 3); i++) await solveSite(monolithic(solarWeekSite(), ALL_REDUCTIONS_ON, 1e-4), { solver });
+  await solveSite(monolithic(cutSteps(gridTiedSite(2, 15), 144), ALL_REDUCTIONS_OFF, 1e-3), { solver });
   await reductionsSection();
   await rollingSection();
   await solverSection();

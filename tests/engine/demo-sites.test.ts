@@ -1,11 +1,11 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { exampleSites } from '@gridwright/shared/examples';
 import { resolveDefaults, validateSiteSpec } from '@gridwright/shared/site-spec';
-import { SolverPool } from '../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { estimateModelSize } from '../../api/src/engine/estimate-model-size';
 
-const pool = new SolverPool();
+const pool = new HighsSolverPool();
 afterAll(() => pool.close());
 
 /** Common practice (HiGHS's numerics guidance): keep every coefficient kind within a few orders of magnitude of 1. */

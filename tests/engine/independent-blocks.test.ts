@@ -1,11 +1,12 @@
 import { afterAll, describe, expect, it } from 'vitest';
+import { Deadline } from '../../api/src/engine/deadline';
 import { blockModel, findIndependentBlocks } from '../../api/src/engine/independent-blocks';
 import type { ModelArrays } from '../../api/src/engine/model-arrays';
 import { relativeGap, solveInBlocks } from '../../api/src/engine/solve-in-blocks';
-import { SolverPool } from '../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { seededRandom } from './synthetic-sites';
 
-const pool = new SolverPool({ size: 2 });
+const pool = new HighsSolverPool({ size: 2 });
 afterAll(() => pool.close());
 
 interface Col {
@@ -113,8 +114,8 @@ describe('independent blocks', () => {
   it('solves split parts to the optimum of the whole (hand enumeration: 10 + 7)', async () => {
     const m = twoKnapsacks({ pad: 200 });
     expect(findIndependentBlocks(m)).toHaveLength(2);
-    const split = await solveInBlocks(pool, m, { timeLimitSeconds: 10, mipGap: 0 }, true);
-    const whole = await solveInBlocks(pool, m, { timeLimitSeconds: 10, mipGap: 0 }, false);
+    const split = await solveInBlocks(pool, m, { deadline: Deadline.after(10), mipGap: 0 }, true);
+    const whole = await solveInBlocks(pool, m, { deadline: Deadline.after(10), mipGap: 0 }, false);
     expect(split.blocks).toBe(2);
     expect(whole.blocks).toBe(1);
     expect(split.status).toBe('optimal');
@@ -137,7 +138,7 @@ describe('independent blocks', () => {
       { lo: -Infinity, hi: 5, entries: entriesA },
       { lo: 300, hi: Infinity, entries: entriesB },
     ]);
-    const r = await solveInBlocks(pool, m, { timeLimitSeconds: 10, mipGap: 0, wantIis: true }, true);
+    const r = await solveInBlocks(pool, m, { deadline: Deadline.after(10), mipGap: 0, wantIis: true }, true);
     expect(r.blocks).toBe(2);
     expect(r.status).toBe('infeasible');
     expect(r.colValue).toBeNull();
@@ -172,16 +173,17 @@ describe('independent blocks', () => {
     ]);
     const blocks = findIndependentBlocks(m);
     expect(blocks).toHaveLength(2);
-    const alone = await Promise.all(blocks.map((b) => pool.solve({ model: blockModel(m, b), timeLimitSeconds: 20, mipGap: 0.02 })));
+    const alone = await Promise.all(blocks.map((b) => pool.solve(blockModel(m, b), { deadline: Deadline.after(20), mipGap: 0.02 })));
     expect(Math.sign(alone[0].objective!)).toBe(-Math.sign(alone[1].objective!));
     const sumValue = alone[0].objective! + alone[1].objective!;
     const sumBound = alone[0].dualBound! + alone[1].dualBound!;
     expect(relativeGap(sumValue, sumBound)).toBeGreaterThan(0.02);
 
-    const r = await solveInBlocks(pool, m, { timeLimitSeconds: 20, mipGap: 0.02 }, true);
+    // Both rounds (the parts, then the re-solves) share one deadline: twice what one part was given.
+    const r = await solveInBlocks(pool, m, { deadline: Deadline.after(40), mipGap: 0.02 }, true);
     expect(r.status).toBe('optimal');
     expect(r.mipGap!).toBeLessThanOrEqual(0.02);
-    const exact = await solveInBlocks(pool, m, { timeLimitSeconds: 60, mipGap: 0 }, true);
+    const exact = await solveInBlocks(pool, m, { deadline: Deadline.after(60), mipGap: 0 }, true);
     expect(r.objective!).toBeLessThanOrEqual(exact.objective! + 1e-6);
     expect(r.objective!).toBeGreaterThanOrEqual(exact.objective! * (1 - 0.02) - 1e-6);
   });

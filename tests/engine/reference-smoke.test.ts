@@ -1,10 +1,10 @@
 import { readFileSync } from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
-import { SolverPool } from '../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { resolve } from './synthetic-sites';
 
-const pool = new SolverPool();
+const pool = new HighsSolverPool();
 afterAll(() => pool.close());
 
 const dir = '/work/shared/reference-cases/';

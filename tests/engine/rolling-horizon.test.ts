@@ -1,10 +1,10 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import { SolverPool } from '../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { gridTiedSolarSite, resolve } from './synthetic-sites';
 
-const pool = new SolverPool();
+const pool = new HighsSolverPool();
 afterAll(() => pool.close());
 
 /** 30 days hourly, solar + daily load + day/night prices + a battery (no units, so each solve is an LP). */

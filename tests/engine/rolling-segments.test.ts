@@ -1,12 +1,11 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import type { RunResult } from '@gridwright/shared/run-result';
 import { rollingSegments, rollingWindows } from '../../api/src/engine/horizon-windows';
-import { SolverPool } from '../../api/src/engine/solver-pool';
-import { solveSite } from '../../api/src/engine/solve-site';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { solveSite, type SiteSolution } from '../../api/src/engine/solve-site';
 import { gridTiedSolarSite, resolve } from './synthetic-sites';
 
-const pool = new SolverPool({ size: 2 });
+const pool = new HighsSolverPool({ size: 2 });
 afterAll(() => pool.close());
 
 const withWindow = (spec: ResolvedSiteSpec, window: Partial<ResolvedSiteSpec['solver']['window']>): ResolvedSiteSpec => ({
@@ -14,11 +13,11 @@ const withWindow = (spec: ResolvedSiteSpec, window: Partial<ResolvedSiteSpec['so
   solver: { ...spec.solver, mode: 'rolling', window: { ...spec.solver.window, ...window } },
 });
 
-const windowsOf = (r: RunResult) => r.model.windows.filter((w) => w.kind === 'window');
-const probesOf = (r: RunResult) => r.model.windows.filter((w) => w.kind === 'seam-probe');
+const windowsOf = (r: SiteSolution) => r.model.windows.filter((w) => w.kind === 'window');
+const probesOf = (r: SiteSolution) => r.model.windows.filter((w) => w.kind === 'seam-probe');
 
 /** The committed windows tile the horizon: each starts where the previous one's kept steps end. */
-function expectTiled(r: RunResult, steps: number): void {
+function expectTiled(r: SiteSolution, steps: number): void {
   let next = 0;
   for (const w of windowsOf(r)) {
     expect(w.fromStep).toBe(next);

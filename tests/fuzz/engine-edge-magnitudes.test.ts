@@ -3,7 +3,7 @@
 // either the validator refuses them with a pointer, or the engine solves them to the right optimum.
 import { afterAll, describe, expect, it } from 'vitest';
 import { solveSite } from '../../api/src/engine/solve-site';
-import { SolverPool } from '../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { resolveDefaults, validateSiteSpec } from '../../shared/src/site-spec';
 
 const horizon = { start: '2027-03-01T00:00:00+01:00', stepMinutes: 60, steps: 2 };
@@ -18,7 +18,7 @@ const surplusSite = (unit: Record<string, unknown>, extra: Record<string, unknow
 });
 
 describe('engine edge cases found by fuzzing', () => {
-  const solver = new SolverPool();
+  const solver = new HighsSolverPool();
   afterAll(async () => solver.close());
 
   async function solveOrRefuse(spec: unknown): Promise<{ refused: true } | { refused: false; outcome: string; objective: number | null }> {

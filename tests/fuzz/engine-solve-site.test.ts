@@ -4,14 +4,14 @@ import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import { resolveDefaults, validateSiteSpec } from '../../shared/src/site-spec';
 import { solveSite } from '../../api/src/engine/solve-site';
-import { SolverPool } from '../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { fuzzRuns, fuzzSeed } from './support/fuzz-runs';
 import { validSpecArb } from './support/spec-arbitraries';
 
 const OUTCOMES = ['optimal', 'feasible', 'infeasible', 'no-solution'];
 
 describe('solveSite under fuzzing', () => {
-  const solver = new SolverPool();
+  const solver = new HighsSolverPool();
   afterAll(async () => solver.close());
 
   it('never throws on a valid small spec and returns a well-formed result', async () => {

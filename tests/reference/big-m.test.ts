@@ -19,14 +19,19 @@
  */
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { LP } from 'glpk.js/node';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { verifySchedule } from '../../api/src/engine/verify-schedule';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { expectVerifiedOptimum } from './support/check-result';
 import { buildPlainModel, glpk, scheduleFromValues, solvePlain } from './support/plain-formulation';
 import { ALL_REDUCTIONS_ON, monolithic, resolveSpec } from './support/specs';
+
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
+afterAll(() => solver.close());
 
 const EXAMPLES_DIR = path.resolve(import.meta.dirname, '../../shared/examples');
 
@@ -91,7 +96,7 @@ const span = (r: [number, number] | null) => (r ? r[1] / r[0] : 1);
 
 describe('big-M in the engine', () => {
   it.each(demoSpecs())('$name: every big-M is at most its rating and the power that can reach it; ranges span a few orders', async ({ spec }) => {
-    const result = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON, spec.solver.mipGap));
+    const result = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON, spec.solver.mipGap), { solver });
     expectVerifiedOptimum(spec, result);
     const limit = ceilings(spec);
     expect(result.model.bigM.length).toBeGreaterThan(0);
@@ -112,7 +117,7 @@ describe('big-M in the engine', () => {
   it('uses the reachable power, not the rating, where less can reach a unit', async () => {
     // The pump is rated 2 000 kW, but at most 510 (supply) + 150 (import) + 500 (diesel)
     // + 120 (battery discharge) = 1 280 kW can ever reach it.
-    const result = await solveSite(monolithic(MIXED, ALL_REDUCTIONS_ON, 1e-9));
+    const result = await solveSite(monolithic(MIXED, ALL_REDUCTIONS_ON, 1e-9), { solver });
     const pump = result.model.bigM.find((b) => b.where === 'pump capacity');
     expect(pump).toBeDefined();
     expect(pump!.value).toBeLessThanOrEqual(1280);

@@ -6,12 +6,17 @@
  * the verifier's objective must be the one the engine reports.
  */
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { verifySchedule } from '../../api/src/engine/verify-schedule';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { arbitraryResolvedSpec } from './support/arbitrary-spec';
 import { PROPERTY_TIMEOUT_MS, expectVerifiedOptimum, propertyRuns, sameOptimum } from './support/check-result';
 import { solvePlain } from './support/plain-formulation';
+
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
+afterAll(() => solver.close());
 
 describe('engine vs plain GLPK on random small specs', () => {
   it('agree on feasibility and on the optimum', async () => {
@@ -19,7 +24,7 @@ describe('engine vs plain GLPK on random small specs', () => {
     await fc.assert(
       fc.asyncProperty(arbitraryResolvedSpec(), async (spec) => {
         const plain = await solvePlain(spec, { mipGap: 1e-9, timeLimitSeconds: 20 });
-        const result = await solveSite(spec);
+        const result = await solveSite(spec, { solver });
         if (plain.status === 'infeasible') {
           expect(result.outcome).toBe('infeasible');
           return;

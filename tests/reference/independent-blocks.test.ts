@@ -6,11 +6,16 @@
  * whose nights split them, solved split and whole.
  */
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { solveSite } from '../../api/src/engine/solve-site';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { PROPERTY_TIMEOUT_MS, expectVerifiedOptimum, propertyRuns, sameOptimum } from './support/check-result';
 import { ALL_REDUCTIONS_ON, closeRel, monolithic, resolveSpec } from './support/specs';
+
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
+afterAll(() => solver.close());
 
 const DAY = [0, 3000, 12000, 1500, 8000, 0];
 
@@ -29,7 +34,7 @@ describe('independent blocks', () => {
       }),
       ALL_REDUCTIONS_ON,
     );
-    const r = await solveSite(spec);
+    const r = await solveSite(spec, { solver });
     const value = expectVerifiedOptimum(spec, r);
     expect(closeRel(value, days * 780), `${value}`).toBe(true);
     expect(r.model.windows[0].blocks).toBeGreaterThan(1);
@@ -80,8 +85,8 @@ describe('independent blocks', () => {
           })),
           solver: { mode: 'monolithic', mipGap: 1e-9, timeLimitSeconds: 30 },
         });
-        const on = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON));
-        const whole = await solveSite(monolithic(spec, { ...ALL_REDUCTIONS_ON, independentBlocks: false }));
+        const on = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON), { solver });
+        const whole = await solveSite(monolithic(spec, { ...ALL_REDUCTIONS_ON, independentBlocks: false }), { solver });
         const a = expectVerifiedOptimum(spec, on);
         const b = expectVerifiedOptimum(spec, whole);
         expect(whole.model.windows[0].blocks).toBe(1);

@@ -6,18 +6,23 @@
  * import and export prices, where doing both at once is worth something or costs nothing.
  */
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { solveSite } from '../../api/src/engine/solve-site';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { arbitraryResolvedSpec } from './support/arbitrary-spec';
 import { PROPERTY_TIMEOUT_MS, expectVerifiedOptimum, propertyRuns, sameOptimum, simultaneousUse } from './support/check-result';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from './support/specs';
+
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
+afterAll(() => solver.close());
 
 describe('formulation reductions', () => {
   it('never change the optimum (every reduction on vs every reduction off)', async () => {
     await fc.assert(
       fc.asyncProperty(arbitraryResolvedSpec(), async (spec) => {
-        const on = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON));
-        const off = await solveSite(monolithic(spec, ALL_REDUCTIONS_OFF));
+        const on = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON), { solver });
+        const off = await solveSite(monolithic(spec, ALL_REDUCTIONS_OFF), { solver });
         expect(on.outcome === 'infeasible').toBe(off.outcome === 'infeasible');
         if (off.outcome === 'infeasible') return;
         const a = expectVerifiedOptimum(spec, on);
@@ -31,11 +36,11 @@ describe('formulation reductions', () => {
   it('relaxExclusivity never charges and discharges, or imports and exports, in one step', async () => {
     await fc.assert(
       fc.asyncProperty(arbitraryResolvedSpec({ exclusivityStress: true }), async (spec) => {
-        const relaxed = await solveSite(monolithic(spec, { ...ALL_REDUCTIONS_OFF, relaxExclusivity: true }));
+        const relaxed = await solveSite(monolithic(spec, { ...ALL_REDUCTIONS_OFF, relaxExclusivity: true }), { solver });
         if (relaxed.outcome === 'infeasible') return;
         expectVerifiedOptimum(spec, relaxed);
         expect(simultaneousUse(spec, relaxed.schedule!)).toEqual([]);
-        const strict = await solveSite(monolithic(spec, ALL_REDUCTIONS_OFF));
+        const strict = await solveSite(monolithic(spec, ALL_REDUCTIONS_OFF), { solver });
         expect(sameOptimum(relaxed.objective.value!, strict.objective.value!)).toBe(true);
       }),
       propertyRuns(30),
@@ -45,7 +50,7 @@ describe('formulation reductions', () => {
   it('relaxExclusivity with every other reduction on keeps exclusivity too', async () => {
     await fc.assert(
       fc.asyncProperty(arbitraryResolvedSpec({ exclusivityStress: true }), async (spec) => {
-        const r = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON));
+        const r = await solveSite(monolithic(spec, ALL_REDUCTIONS_ON), { solver });
         if (r.outcome === 'infeasible') return;
         expectVerifiedOptimum(spec, r);
         expect(simultaneousUse(spec, r.schedule!)).toEqual([]);

@@ -15,10 +15,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { verifySchedule } from '../../api/src/engine/verify-schedule';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { buildPlainModel, solvePlain, toCplexLp } from './support/plain-formulation';
 import {
   ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, REFERENCE_DIR, closeRel, monolithic, readReferenceCase, referenceCasesPresent, resolveSpec,
 } from './support/specs';
+
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
+afterAll(() => solver.close());
 
 interface ReferenceCase {
   file: string;
@@ -111,7 +116,7 @@ describe.skipIf(!referenceCasesPresent)(
       const spec = (): ResolvedSiteSpec => readReferenceCase(file);
 
       it.each(ENGINE_VARIANTS)('$label', async ({ reductions }) => {
-        const result = await solveSite(monolithic(spec(), reductions));
+        const result = await solveSite(monolithic(spec(), reductions), { solver });
         expect(result.outcome).toBe('optimal');
         expect(result.schedule).not.toBeNull();
         const value = result.objective.value ?? Number.NaN;
@@ -172,7 +177,7 @@ describe('own hand-derived cases', () => {
   });
 
   it.each(ENGINE_VARIANTS)('a pruned step does not cut a minimum up time short ($label)', async ({ reductions }) => {
-    const result = await solveSite(monolithic(spec(), reductions));
+    const result = await solveSite(monolithic(spec(), reductions), { solver });
     expect(result.outcome).toBe('optimal');
     expect(closeRel(result.objective.value ?? Number.NaN, 20)).toBe(true);
     expect(result.schedule!.units.pump.on).toEqual([0, 0, 1, 1]);

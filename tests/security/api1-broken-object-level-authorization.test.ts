@@ -5,7 +5,7 @@
 // resources are exactly as they were. Generated over the document, so a new route is covered.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { roleAllows, scopeAllows, type Action } from '../../api/src/auth/permissions';
-import { SCOPES } from '../../api/src/auth/principal';
+import { SCOPES } from '../../api/src/lib/roles-and-scopes';
 import { createTenantWithKey, createUserSession } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
 import { startWebhookReceiver, type WebhookReceiver } from '../support/webhook-receiver';

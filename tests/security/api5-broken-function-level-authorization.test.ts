@@ -4,7 +4,7 @@
 // as soon as it is documented. Path ids name nothing, so an allowed call changes nothing (404).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { permissions, roleAllows, type Action } from '../../api/src/auth/permissions';
-import { ROLES, SCOPES, type Role, type Scope } from '../../api/src/auth/principal';
+import { ROLES, SCOPES, type Role, type Scope } from '../../api/src/lib/roles-and-scopes';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { createTenantWithKey, createUserSession } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';

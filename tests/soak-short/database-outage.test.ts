@@ -7,7 +7,7 @@ import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createDataSource } from '../../api/src/db/data-source';
-import { stopQueue } from '../../api/src/services/run-queue';
+import { stopQueue } from '../../api/src/services/job-queue';
 import { startWorkers } from '../../api/src/services/workers';
 import { startCluster, type Cluster } from '../../scripts/lib/postgres.mjs';
 import { newPool, waitAllTerminal } from '../soak/lib/harness';

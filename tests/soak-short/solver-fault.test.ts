@@ -4,8 +4,8 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { solveSite } from '../../api/src/engine/solve-site';
-import { SolverPool } from '../../api/src/engine/solver-pool';
-import { stopQueue } from '../../api/src/services/run-queue';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { stopQueue } from '../../api/src/services/job-queue';
 import { startWorkers } from '../../api/src/services/workers';
 import { newPool, waitAllTerminal } from '../soak/lib/harness';
 import { busySiteSpec, smallSiteSpec } from '../soak/lib/specs';
@@ -13,9 +13,9 @@ import { createTenantWithKey } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
 
 /** The real engine; for runs named "crash" the solver thread is terminated as soon as it starts. */
-const crashingSolve: typeof solveSite = async (spec, opts = {}) => {
+const crashingSolve: typeof solveSite = async (spec, opts) => {
   if (spec.name !== 'crash') return solveSite(spec, opts);
-  const solver = new SolverPool();
+  const solver = new HighsSolverPool();
   // Fault injection: reach the pool's worker threads and kill one while it is solving (no public
   // API does this, on purpose).
   const timer = setInterval(() => {

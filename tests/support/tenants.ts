@@ -2,7 +2,7 @@
 import { randomBytes } from 'node:crypto';
 import type { Express } from 'express';
 import request from 'supertest';
-import { SCOPES, type Role, type Scope, type TenantRole } from '../../api/src/auth/principal';
+import { SCOPES, type Role, type Scope, type TenantRole } from '../../api/src/lib/roles-and-scopes';
 import type { AppContext } from '../../api/src/context';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { createMember } from '../../api/src/services/members';

@@ -6,7 +6,7 @@ import { buildApp } from '../../api/src/app';
 import { createContext } from '../../api/src/bootstrap';
 import { loadConfig } from '../../api/src/config';
 import type { AppContext } from '../../api/src/context';
-import { stopQueue } from '../../api/src/services/run-queue';
+import { stopQueue } from '../../api/src/services/job-queue';
 import { createTestDatabase } from './database';
 
 export interface TestApp {

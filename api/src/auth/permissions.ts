@@ -1,7 +1,7 @@
 // THE permission matrix. Every route calls `authorize(action)` with one of these actions, every
 // operation in openapi.yaml names its action in `x-permission`, the README table is rendered from
 // here, and the role × route tests are generated from it.
-import { ROLES, type Role, type Scope } from './principal';
+import { ROLES, type Role, type Scope } from '../lib/roles-and-scopes';
 
 export interface Permission {
   description: string;

@@ -1,11 +1,5 @@
 // Who is acting on a request, as established by `authenticate` (middleware.ts).
-export type TenantRole = 'owner' | 'developer' | 'viewer';
-export type Role = TenantRole | 'operator';
-export type Scope = 'runs:read' | 'runs:write' | 'series:write' | 'webhooks:manage';
-
-export const TENANT_ROLES: readonly TenantRole[] = ['owner', 'developer', 'viewer'];
-export const ROLES: readonly Role[] = ['owner', 'developer', 'viewer', 'operator'];
-export const SCOPES: readonly Scope[] = ['runs:read', 'runs:write', 'series:write', 'webhooks:manage'];
+import type { Role, Scope } from '../lib/roles-and-scopes';
 
 export interface Principal {
   kind: 'api-key' | 'session';

@@ -1,10 +1,10 @@
 // Operator commands: `npm run --silent admin -- <command> …` (against the same database as `npm start`).
 import { randomBytes } from 'node:crypto';
 import { parseArgs } from 'node:util';
-import { SCOPES, ROLES, type Role, type Scope } from '../auth/principal';
 import { createContext } from '../bootstrap';
 import type { AppContext } from '../context';
 import { HttpProblem } from '../lib/problem';
+import { SCOPES, ROLES, type Role, type Scope } from '../lib/roles-and-scopes';
 import { createApiKey } from '../services/api-keys';
 import { createMember, inviteMember } from '../services/members';
 import { createTenant, getTenantBySlug, setTenantSuspended, updateTenant } from '../services/tenants';

@@ -8,9 +8,10 @@ import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import { resolveDefaults, validateSiteSpec } from '@gridwright/shared/site-spec';
 import { solveSite } from '../engine/solve-site';
-import { defaultSolverPool } from '../engine/solver-pool';
 import { scheduleToCsv } from '../services/schedule-csv';
 import { HttpProblem, validationProblem, type ProblemFieldError } from '../lib/problem';
+import { HighsSolverPool } from '../solver/highs-solver-pool';
+import { defaultSolverThreads } from '../solver/solver-threads';
 
 const USAGE = 'usage: npm run --silent solve -- <spec.json | -> [--mode monolithic|rolling] [--no-reductions] [--csv]';
 
@@ -32,7 +33,7 @@ function usageProblem(detail: string): never {
   process.exit(2);
 }
 
-async function main(): Promise<void> {
+async function main(solver: HighsSolverPool): Promise<void> {
   let parsed;
   try {
     parsed = parseArgs({
@@ -69,7 +70,7 @@ async function main(): Promise<void> {
   if (values.mode) spec.solver.mode = values.mode as 'monolithic' | 'rolling';
   if (values['no-reductions']) spec.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false };
 
-  const result = await solveSite(spec);
+  const result = await solveSite(spec, { solver });
   if (values.csv) {
     // The same columns as GET /v1/runs/{id}/schedule?format=csv with its defaults.
     const csvDefaults = { powerUnit: 'kW', timestamps: 'offset', delimiter: ',', tagMap: {} } as const;
@@ -88,13 +89,15 @@ async function main(): Promise<void> {
     process.stdout.write(scheduleToCsv(schedule, csvDefaults));
     if (!result.schedule) process.stderr.write(`outcome: ${result.outcome}; no schedule\n`);
   } else {
-    process.stdout.write(JSON.stringify(result, null, 2) + '\n');
+    // SPEC.md §3's result leads with the run's status: an offline solve that printed a result succeeded.
+    process.stdout.write(JSON.stringify({ status: 'succeeded', ...result }, null, 2) + '\n');
   }
 }
 
+const solver = new HighsSolverPool({ size: defaultSolverThreads() });
 try {
-  await main();
-  await defaultSolverPool().close();
+  await main(solver);
+  await solver.close();
   process.exitCode = 0;
 } catch (err) {
   process.stderr.write(`solve failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);

@@ -1,5 +1,4 @@
 import { stateMemorySteps, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import { demandChargeSteps } from './demand-charge-steps';
 import type { WindowStartState } from './plan-window';
 import type { ScheduleBuffers } from './schedule-buffers';
 
@@ -18,12 +17,19 @@ export const memoryOf = (u: ResolvedSiteSpec['units'][number]) => stateMemorySte
 /**
  * The state after steps `from … to − 1` of the stitched schedule, given the state before
  * `from`: each storage's SOC and store's level, each unit's on/off state, how long it has been in
- * it and its last output, and the highest import so far in each demand charge's window. Only
+ * it and its last output, and the highest import so far in each demand charge's window (the steps
+ * `chargeSteps` marks). Only
  * those steps are read, so parallel segments can carry their state before earlier ones finish.
  */
-export function advanceState(spec: ResolvedSiteSpec, before: WindowStartState, b: ScheduleBuffers, from: number, to: number): WindowStartState {
+export function advanceState(
+  spec: ResolvedSiteSpec,
+  chargeSteps: Uint8Array[],
+  before: WindowStartState,
+  b: ScheduleBuffers,
+  from: number,
+  to: number,
+): WindowStartState {
   if (to <= from) return before;
-  const chargeSteps = demandChargeSteps(spec);
   return {
     units: spec.units.map((u, i) => {
       const on = b.units[i].on;

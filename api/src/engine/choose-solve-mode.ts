@@ -1,7 +1,7 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { initialState } from './carry-state';
 import { monolithicWindow } from './horizon-windows';
-import { planWindow } from './plan-window';
+import { planWindow, siteFacts } from './plan-window';
 
 /**
  * `auto` switches to rolling windows above this many unit-steps plus storage-steps (the on/off
@@ -26,7 +26,7 @@ export const AUTO_ROLLING_ABOVE = 1_200;
 function largestBlockUnitSteps(spec: ResolvedSiteSpec): number | null {
   const { sparseSets, independentBlocks } = spec.solver.reductions;
   if (!sparseSets || !independentBlocks || spec.storage.length > 0 || spec.units.length === 0) return null;
-  const plan = planWindow(spec, monolithicWindow(spec)[0], initialState(spec));
+  const plan = planWindow(spec, siteFacts(spec), monolithicWindow(spec)[0], initialState(spec));
   const T = spec.horizon.steps;
   const split = Math.max(...spec.units.map((u) => u.minDownSteps));
   let largest = 0;

@@ -16,16 +16,8 @@ export function inChargeWindow(charge: ResolvedDemandCharge, weekday: number, mi
   return from < to ? minuteOfDay >= from && minuteOfDay < to : minuteOfDay >= from || minuteOfDay < to;
 }
 
-const cache = new WeakMap<ResolvedSiteSpec, Uint8Array[]>();
-
-/** Per demand charge, 1 at each step whose start (local time) its window covers; computed once per spec. */
+/** Per demand charge, 1 at each step whose start (local time) its window covers. A solve computes it once (SiteFacts). */
 export function demandChargeSteps(spec: ResolvedSiteSpec): Uint8Array[] {
-  let masks = cache.get(spec);
-  if (!masks) cache.set(spec, (masks = computeChargeSteps(spec)));
-  return masks;
-}
-
-function computeChargeSteps(spec: ResolvedSiteSpec): Uint8Array[] {
   if (!spec.grid.demandCharges.length) return [];
   const { start, stepMinutes, steps, timeZone } = spec.horizon;
   const local = localStepTimes(start, stepMinutes, steps, timeZone);

@@ -3,7 +3,7 @@ import { buildWindowModel } from './build-window-model';
 import { initialState } from './carry-state';
 import { chooseSolveMode } from './choose-solve-mode';
 import { monolithicWindow, rollingSegments } from './horizon-windows';
-import { planWindow } from './plan-window';
+import { planWindow, siteFacts } from './plan-window';
 
 export interface ModelSizeEstimate {
   mode: 'monolithic' | 'rolling';
@@ -25,7 +25,7 @@ export function estimateModelSize(spec: ResolvedSiteSpec): ModelSizeEstimate {
   const segments = mode === 'rolling' ? rollingSegments(spec) : [{ windows: monolithicWindow(spec) }];
   const windows = segments.flatMap((s) => s.windows);
   const first = windows[0];
-  const plan = planWindow(spec, first, initialState(spec));
+  const plan = planWindow(spec, siteFacts(spec), first, initialState(spec));
   const built = buildWindowModel(plan);
   const totalSteps = windows.reduce((n, w) => n + w.steps, 0);
   const factor = totalSteps / first.steps;

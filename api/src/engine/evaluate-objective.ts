@@ -7,7 +7,7 @@ import type { ScheduleBuffers } from './schedule-buffers';
 import { curveValuePerHour } from './unit-curves';
 
 /** SPEC.md §2 and §5's objective, evaluated on a (stitched) schedule in the spec's own units, term by term. */
-export function objectiveTerms(spec: ResolvedSiteSpec, b: ScheduleBuffers): ObjectiveTerms {
+export function objectiveTerms(spec: ResolvedSiteSpec, chargeSteps: Uint8Array[], b: ScheduleBuffers): ObjectiveTerms {
   const dh = spec.horizon.stepMinutes / 60;
   const T = spec.horizon.steps;
   const terms: ObjectiveTerms = { energy: 0, noLoad: 0, starts: 0, demandCharges: 0, penalties: 0, cycleCost: 0 };
@@ -36,7 +36,7 @@ export function objectiveTerms(spec: ResolvedSiteSpec, b: ScheduleBuffers): Obje
     const { shortfall } = reserveHeld(spec, b);
     for (let t = 0; t < T; t++) terms.penalties -= dh * spec.reserve.shortfallPenaltyPerKwh * shortfall[t];
   }
-  demandChargePeaks(spec, b.imp).forEach((peak, c) => {
+  demandChargePeaks(spec, chargeSteps, b.imp).forEach((peak, c) => {
     const charge = spec.grid.demandCharges[c];
     terms.demandCharges -= charge.pricePerKw * (peak - charge.existingPeakKw);
   });
@@ -44,7 +44,3 @@ export function objectiveTerms(spec: ResolvedSiteSpec, b: ScheduleBuffers): Obje
 }
 
 export const sumTerms = (t: ObjectiveTerms) => t.energy + t.noLoad + t.starts + t.demandCharges + t.penalties + t.cycleCost;
-
-export function evaluateObjective(spec: ResolvedSiteSpec, b: ScheduleBuffers): number {
-  return sumTerms(objectiveTerms(spec, b));
-}

@@ -1,9 +1,7 @@
 import type { BuiltModel } from './build-window-model';
+import { ON_THRESHOLD, OUTPUT_CLEANING_TOLERANCE } from './numerics';
 import type { WindowPlan } from './plan-window';
 import type { ScheduleBuffers } from './schedule-buffers';
-
-/** HiGHS's default primal feasibility tolerance, in internal units. */
-const SOLVER_TOLERANCE = 1e-7;
 
 /**
  * Copies the committed steps of a window's solution into the stitched schedule, unscaled to kW
@@ -14,7 +12,7 @@ const SOLVER_TOLERANCE = 1e-7;
 export function extractWindowSchedule(plan: WindowPlan, built: BuiltModel, x: Float64Array, out: ScheduleBuffers): void {
   const { spec, window, scales, dh } = plan;
   const P = scales.powerKw;
-  const tol = 10 * SOLVER_TOLERANCE * P;
+  const tol = OUTPUT_CLEANING_TOLERANCE * P;
   const cols = built.columns;
   const value = (col: number, ub: number) => {
     if (col < 0) return 0;
@@ -39,7 +37,7 @@ export function extractWindowSchedule(plan: WindowPlan, built: BuiltModel, x: Fl
 
     spec.units.forEach((u, i) => {
       const c = cols.units[i];
-      const on = c.on[k] >= 0 && x[c.on[k]] > 0.5 ? 1 : 0;
+      const on = c.on[k] >= 0 && x[c.on[k]] > ON_THRESHOLD ? 1 : 0;
       let p = on ? value(c.power[k], u.ratingKw) : 0;
       if (on && p < u.minStableKw && p >= u.minStableKw - tol) p = u.minStableKw;
       out.units[i].on[t] = on;
@@ -71,7 +69,7 @@ export function extractWindowSchedule(plan: WindowPlan, built: BuiltModel, x: Fl
     spec.stores.forEach((s, j) => {
       const c = cols.stores[j];
       const Q = plan.stores[j].scale;
-      const storeTol = 10 * SOLVER_TOLERANCE * Q;
+      const storeTol = OUTPUT_CLEANING_TOLERANCE * Q;
       const rate = (col: number, ub: number) => {
         if (col < 0) return 0;
         const v = x[col] * Q;

@@ -38,7 +38,7 @@ export interface RollingSegment {
 /**
  * The rolling horizon cut into segments of about `segmentWindows` windows each (none when the
  * horizon has fewer than twice that many). A segment's last window ends where the next segment
- * starts; the state there is fixed in advance (rolling-segments.ts), so the segments need not
+ * starts; the state there is fixed in advance (solve-rolling.ts), so the segments need not
  * wait for each other. The cut depends on the spec alone, so a spec gets the same schedule on
  * any machine, however many solver threads it has. A horizon with demand charges is never cut.
  */

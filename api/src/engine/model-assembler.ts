@@ -1,4 +1,4 @@
-import { GrowableFloat64, GrowableInt32 } from './growable-arrays';
+import { GrowableArray } from './growable-array';
 import { ColKind, RowKind, type ModelArrays, type ModelTags } from './model-arrays';
 
 /**
@@ -7,21 +7,21 @@ import { ColKind, RowKind, type ModelArrays, type ModelTags } from './model-arra
  * cannot carry (internal money units).
  */
 export class ModelAssembler {
-  private readonly cost = new GrowableFloat64();
-  private readonly lower = new GrowableFloat64();
-  private readonly upper = new GrowableFloat64();
-  private readonly integer = new GrowableInt32();
-  private readonly colKind = new GrowableInt32();
-  private readonly colStep = new GrowableInt32();
-  private readonly colEntity = new GrowableInt32();
-  private readonly rowLo = new GrowableFloat64();
-  private readonly rowHi = new GrowableFloat64();
-  private readonly rowKind = new GrowableInt32();
-  private readonly rowStep = new GrowableInt32();
-  private readonly rowEntity = new GrowableInt32();
-  private readonly entryRow = new GrowableInt32(4096);
-  private readonly entryCol = new GrowableInt32(4096);
-  private readonly entryVal = new GrowableFloat64(4096);
+  private readonly cost = new GrowableArray(Float64Array);
+  private readonly lower = new GrowableArray(Float64Array);
+  private readonly upper = new GrowableArray(Float64Array);
+  private readonly integer = new GrowableArray(Int32Array);
+  private readonly colKind = new GrowableArray(Int32Array);
+  private readonly colStep = new GrowableArray(Int32Array);
+  private readonly colEntity = new GrowableArray(Int32Array);
+  private readonly rowLo = new GrowableArray(Float64Array);
+  private readonly rowHi = new GrowableArray(Float64Array);
+  private readonly rowKind = new GrowableArray(Int32Array);
+  private readonly rowStep = new GrowableArray(Int32Array);
+  private readonly rowEntity = new GrowableArray(Int32Array);
+  private readonly entryRow = new GrowableArray(Int32Array, 4096);
+  private readonly entryCol = new GrowableArray(Int32Array, 4096);
+  private readonly entryVal = new GrowableArray(Float64Array, 4096);
   binaries = 0;
   objectiveOffset = 0;
 

@@ -3,10 +3,8 @@ import { chooseScales, type Scales } from './choose-scales';
 import { demandChargeSteps } from './demand-charge-steps';
 import { storeLevelFloors } from './store-floors';
 import { islandEnergyValue, lookaheadEnergyValue, storeProductValue } from './terminal-values';
-import { unitRatings } from './unit-ratings';
-
-/** A reach within this many kW of a unit's minimum stable output still lets it run (float noise in the sums). */
-const POWER_TOLERANCE_KW = 1e-9;
+import { TINY } from './numerics';
+import { ratingSums, storageStepLimits } from './site-ratings';
 
 /** A slice of the horizon solved as one model. `commit` steps of it are kept. */
 export interface HorizonWindow {
@@ -150,44 +148,29 @@ function looseSiteBound(spec: ResolvedSiteSpec): number {
 }
 
 /**
- * The most power any storage can move in one step, limited by its SOC range as well as its
- * inverter (a step cannot charge more than fills it from its minimum).
+ * What planning reads from the whole horizon. A solve computes it once and plans every window
+ * with it: a rolling year would otherwise rescan its 35 040 steps for each of its windows
+ * (measured: 4 ms a window).
  */
-function storageStepLimits(spec: ResolvedSiteSpec, dh: number) {
-  return spec.storage.map((s) => ({
-    charge: Math.min(s.maxChargeKw, (s.capacityKwh - s.minSocKwh) / (dh * s.chargeEfficiency)),
-    discharge: Math.min(s.maxDischargeKw, ((s.capacityKwh - s.minSocKwh) * s.dischargeEfficiency) / dh),
-  }));
-}
-
-interface SiteFacts {
+export interface SiteFacts {
   scales: Scales;
+  /** The big-M used where `tightBigM` is off (looseSiteBound). */
   loose: number;
+  /** What island energy is worth (islandEnergyValue); 0 without storage, which alone needs it. */
   island: number;
   /** Per demand charge, 1 at the steps its window covers. */
   chargeSteps: Uint8Array[];
   storeFloors: Float64Array[];
 }
 
-const siteFactsCache = new WeakMap<ResolvedSiteSpec, SiteFacts>();
-
-/**
- * What planning reads from the whole horizon, computed once per spec: a rolling year would
- * otherwise rescan its 35 040 steps for every one of its windows (measured: 4 ms a window).
- */
-function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
-  let facts = siteFactsCache.get(spec);
-  if (!facts) {
-    facts = {
-      scales: chooseScales(spec, spec.solver.reductions.scaling),
-      loose: looseSiteBound(spec),
-      island: spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0,
-      chargeSteps: demandChargeSteps(spec),
-      storeFloors: storeLevelFloors(spec),
-    };
-    siteFactsCache.set(spec, facts);
-  }
-  return facts;
+export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+  return {
+    scales: chooseScales(spec, spec.solver.reductions.scaling),
+    loose: looseSiteBound(spec),
+    island: spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0,
+    chargeSteps: demandChargeSteps(spec),
+    storeFloors: storeLevelFloors(spec),
+  };
 }
 
 export interface ForcedBinaries {
@@ -202,6 +185,7 @@ export interface ForcedBinaries {
  */
 export function planWindow(
   spec: ResolvedSiteSpec,
+  facts: SiteFacts,
   window: HorizonWindow,
   start: WindowStartState,
   forced?: ForcedBinaries,
@@ -209,7 +193,7 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const { scales, loose, island, chargeSteps, storeFloors } = siteFacts(spec);
+  const { scales, loose, island, chargeSteps, storeFloors } = facts;
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
@@ -217,13 +201,7 @@ export function planWindow(
   // relaxation serves, and the MIP is left with the decisions that are actually kept.
   const integerSteps = window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
 
-  const { generatorKw, flexibleKw } = unitRatings(spec);
-  let chargeTotal = 0;
-  let dischargeTotal = 0;
-  for (const l of limits) {
-    chargeTotal += l.charge;
-    dischargeTotal += l.discharge;
-  }
+  const sums = ratingSums(spec, limits);
 
   // What could reach a consumer (flexible load, storage charging, export) and what could be
   // absorbed from a producer (generator, import) at each step, from the balance row's bounds.
@@ -233,8 +211,8 @@ export function planWindow(
   for (let k = 0; k < n; k++) {
     const t = window.from + k;
     const load = spec.siteLoad.kw[t];
-    inflowExclImport[k] = spec.supply.availableKw[t] + generatorKw + dischargeTotal - (hardLoad ? load : 0);
-    sink[k] = load + flexibleKw + chargeTotal;
+    inflowExclImport[k] = spec.supply.availableKw[t] + sums.generatorKw + sums.dischargeKw - (hardLoad ? load : 0);
+    sink[k] = load + sums.flexibleLoadKw + sums.chargeKw;
     reserveKw[k] = spec.reserve ? spec.reserve.upKw[t] : 0;
   }
 
@@ -288,7 +266,7 @@ export function planWindow(
         forcedOff[k] = 1;
         hasBinary[k] = reductions.sparseSets ? 0 : 1;
       } else {
-        hasBinary[k] = !reductions.sparseSets || tight >= u.minStableKw - POWER_TOLERANCE_KW ? 1 : 0;
+        hasBinary[k] = !reductions.sparseSets || tight >= u.minStableKw - TINY ? 1 : 0;
       }
     }
     const tail = window.endState?.unitTails[i] ?? new Uint8Array(0);

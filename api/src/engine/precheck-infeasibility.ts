@@ -1,5 +1,7 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning } from '@gridwright/shared/run-result';
+import { TINY, tinyAt } from './numerics';
+import { ratingSums, reachableKw, storageStepLimits } from './site-ratings';
 import { describeRanges, toStepRanges } from './step-ranges';
 import { storeInitialNeed, storeLevelFloors } from './store-floors';
 
@@ -15,17 +17,14 @@ export function precheckInfeasibility(spec: ResolvedSiteSpec): ResultWarning[] {
   const dh = spec.horizon.stepMinutes / 60;
 
   if (spec.siteLoad.unservedPenaltyPerKwh === null) {
-    let genRatings = 0;
-    for (const u of spec.units) if (u.kind === 'generator') genRatings += u.ratingKw;
-    let discharge = 0;
-    for (const s of spec.storage) discharge += Math.min(s.maxDischargeKw, ((s.capacityKwh - s.minSocKwh) * s.dischargeEfficiency) / dh);
+    const { generatorKw, dischargeKw } = ratingSums(spec, storageStepLimits(spec, dh));
     const short: number[] = [];
     let worst = 0;
     let worstStep = 0;
     for (let t = 0; t < T; t++) {
-      const most = spec.supply.availableKw[t] + spec.grid.importLimitKw + genRatings + discharge;
+      const most = spec.supply.availableKw[t] + spec.grid.importLimitKw + generatorKw + dischargeKw;
       const excess = spec.siteLoad.kw[t] - most;
-      if (excess > 1e-9 * Math.max(1, spec.siteLoad.kw[t])) {
+      if (excess > tinyAt(spec.siteLoad.kw[t])) {
         short.push(t);
         if (excess > worst) {
           worst = excess;
@@ -50,7 +49,7 @@ export function precheckInfeasibility(spec: ResolvedSiteSpec): ResultWarning[] {
   spec.storage.forEach((s, i) => {
     if (s.finalSocKwh === null) return;
     const reachable = Math.min(s.capacityKwh, s.initialSocKwh + T * dh * s.chargeEfficiency * s.maxChargeKw);
-    if (s.finalSocKwh > reachable + 1e-9 * Math.max(1, s.capacityKwh)) {
+    if (s.finalSocKwh > reachable + tinyAt(s.capacityKwh)) {
       found.push({
         code: 'final-soc-unreachable',
         message:
@@ -62,25 +61,13 @@ export function precheckInfeasibility(spec: ResolvedSiteSpec): ResultWarning[] {
     }
   });
 
+  const sums = ratingSums(spec);
   spec.units.forEach((u, i) => {
     if (!u.initial.on) return;
     const mustStayOn = Math.min(T, Math.max(0, u.minUpSteps - u.initial.stepsInState));
     if (mustStayOn === 0 || u.minStableKw <= 0) return;
     const blocked: number[] = [];
-    for (let t = 0; t < mustStayOn; t++) {
-      if (u.kind === 'flexible-load') {
-        let reach = spec.supply.availableKw[t] + spec.grid.importLimitKw;
-        for (const o of spec.units) if (o.kind === 'generator') reach += o.ratingKw;
-        for (const s of spec.storage) reach += s.maxDischargeKw;
-        if (spec.siteLoad.unservedPenaltyPerKwh === null) reach -= spec.siteLoad.kw[t];
-        if (reach < u.minStableKw - 1e-9) blocked.push(t);
-      } else {
-        let sink = spec.siteLoad.kw[t] + spec.grid.exportLimitKw;
-        for (const o of spec.units) if (o.kind === 'flexible-load') sink += o.ratingKw;
-        for (const s of spec.storage) sink += s.maxChargeKw;
-        if (sink < u.minStableKw - 1e-9) blocked.push(t);
-      }
-    }
+    for (let t = 0; t < mustStayOn; t++) if (reachableKw(spec, sums, u.kind, t) < u.minStableKw - TINY) blocked.push(t);
     if (blocked.length) {
       const ranges = toStepRanges(blocked);
       found.push({

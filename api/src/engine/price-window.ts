@@ -1,8 +1,9 @@
 import type { BuiltModel } from './build-window-model';
 import type { ModelArrays } from './model-arrays';
 import type { WindowPlan } from './plan-window';
+import type { Deadline } from './deadline';
 import type { ScheduleBuffers } from './schedule-buffers';
-import type { SolverPool } from './solver-pool';
+import type { SolverPort } from './solver-port';
 
 /** The LP of a window with every integer column fixed at its value in the solution. */
 function withIntegersFixed(model: ModelArrays, x: Float64Array): ModelArrays {
@@ -25,18 +26,17 @@ function withIntegersFixed(model: ModelArrays, x: Float64Array): ModelArrays {
  * unit. Left unknown (NaN) when the LP is not solved to optimality in the time left.
  */
 export async function priceWindow(
-  pool: SolverPool,
+  solver: SolverPort,
   plan: WindowPlan,
   built: BuiltModel,
   x: Float64Array,
   out: ScheduleBuffers,
-  opts: { deadlineMs: number; signal?: AbortSignal },
+  opts: { deadline: Deadline; signal?: AbortSignal },
 ): Promise<{ workerSeconds: number }> {
   const { window, scales, dh } = plan;
-  const remaining = (opts.deadlineMs - performance.now()) / 1000;
-  if (remaining <= 0) return { workerSeconds: 0 };
+  if (opts.deadline.remainingSeconds() <= 0) return { workerSeconds: 0 };
   const lp = withIntegersFixed(built.model, x);
-  const res = await pool.solve({ model: lp, timeLimitSeconds: remaining, deadlineMs: opts.deadlineMs, mipGap: 0, wantDuals: true, signal: opts.signal });
+  const res = await solver.solve(lp, { deadline: opts.deadline, mipGap: 0, wantDuals: true, signal: opts.signal });
   const duals = res.rowDual;
   if (!duals) return { workerSeconds: res.workerSeconds };
   for (let k = 0; k < window.commit; k++) {

@@ -1,4 +1,5 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import { TINY, tinyAt } from './numerics';
 import type { ScheduleBuffers } from './schedule-buffers';
 
 export interface UnrepairedSteps {
@@ -8,7 +9,7 @@ export interface UnrepairedSteps {
   grid: number[];
 }
 
-const tiny = (v: number) => v <= 1e-9;
+const tiny = (v: number) => v <= TINY;
 
 /**
  * Where `relaxExclusivity` dropped a binary and the solver still did both at once (it may, when
@@ -37,7 +38,7 @@ export function repairExclusivity(spec: ResolvedSiteSpec, b: ScheduleBuffers, fr
       const fromImport = Math.min(surplus, b.imp[t]);
       const fromSupply = Math.min(surplus - fromImport, b.supplyUsed[t]);
       const fromExport = spec.grid.exportPrice[t] >= 0 ? Math.min(surplus - fromImport - fromSupply, spec.grid.exportLimitKw - b.exp[t]) : 0;
-      if (surplus - fromImport - fromSupply - fromExport > 1e-9 * Math.max(1, surplus)) {
+      if (surplus - fromImport - fromSupply - fromExport > tinyAt(surplus)) {
         left.storage[i].push(t);
         return;
       }

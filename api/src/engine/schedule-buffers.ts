@@ -1,6 +1,7 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { Schedule } from '@gridwright/shared/run-result';
 import { reserveHeld } from './reserve-held';
+import { tinyAt } from './numerics';
 import { stepTimestamps } from './step-timestamps';
 
 /** The stitched schedule while windows are being solved: typed arrays over the whole horizon, in kW (store units for stores). */
@@ -72,8 +73,8 @@ export function toSchedule(spec: ResolvedSiteSpec, b: ScheduleBuffers): Schedule
   };
 }
 
-/** w − used, with float noise below a micro-kW shown as 0. */
+/** w − used, with float noise shown as 0. */
 function cleanDifference(w: number, used: number): number {
   const d = w - used;
-  return Math.abs(d) <= 1e-9 * Math.max(1, w) ? 0 : d;
+  return Math.abs(d) <= tinyAt(w) ? 0 : d;
 }

@@ -11,11 +11,11 @@ function sum(values: ArrayLike<number>): number {
   return s;
 }
 
-export function scheduleKpis(spec: ResolvedSiteSpec, b: ScheduleBuffers, objectiveTerms: ObjectiveTerms): Kpis {
+export function scheduleKpis(spec: ResolvedSiteSpec, chargeSteps: Uint8Array[], b: ScheduleBuffers, objectiveTerms: ObjectiveTerms): Kpis {
   const dh = spec.horizon.stepMinutes / 60;
   const T = spec.horizon.steps;
   const supplied = sum(b.supplyUsed) * dh;
-  const peaks = demandChargePeaks(spec, b.imp);
+  const peaks = demandChargePeaks(spec, chargeSteps, b.imp);
   return {
     suppliedKwh: supplied,
     curtailedKwh: Math.max(0, sum(spec.supply.availableKw) * dh - supplied),

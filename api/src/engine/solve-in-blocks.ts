@@ -1,8 +1,9 @@
 import { blockModel, findIndependentBlocks, type ModelBlock } from './independent-blocks';
 import type { ModelArrays } from './model-arrays';
-import { SolveAbortedError, type SolveJob, type SolveJobResult, type SolverPool } from './solver-pool';
+import { GAP_ZERO_GUARD, TINY } from './numerics';
+import { SolveAbortedError, type SolveReply, type SolveRequest, type SolverPort } from './solver-port';
 
-export interface BlocksResult extends SolveJobResult {
+export interface BlocksResult extends SolveReply {
   /** Independent parts the model was solved in (1: solved whole). */
   blocks: number;
 }
@@ -13,56 +14,55 @@ export interface BlocksResult extends SolveJobResult {
  */
 export function relativeGap(value: number, bound: number): number {
   if (value === bound) return 0;
-  return Math.abs(bound - value) / (1e-10 + Math.abs(value));
+  return Math.abs(bound - value) / (GAP_ZERO_GUARD + Math.abs(value));
 }
 
 /** A block's outcome that leaves the whole model without a solution: the others need not go on. */
-const hopeless = (r: SolveJobResult) => r.status === 'infeasible' || r.status === 'unbounded' || r.status === 'error' || !r.colValue;
+const hopeless = (r: SolveReply) => r.status === 'infeasible' || r.status === 'unbounded' || r.status === 'error' || !r.colValue;
 
 /**
  * Solves a model, split into its independent blocks when `split` is set (independent-blocks.ts),
- * the blocks in parallel on the pool. Their solutions are put together into one column vector;
+ * the blocks in parallel on the solver. Their solutions are put together into one column vector;
  * objective and bound are sums. When blocks of opposite sign make the summed gap exceed the
  * requested gap although every block met it, the blocks holding the slack are solved again to
  * an absolute gap that brings the sum within it. A block that cannot be solved stops the others.
  */
-export async function solveInBlocks(pool: SolverPool, model: ModelArrays, job: Omit<SolveJob, 'model'>, split: boolean): Promise<BlocksResult> {
+export async function solveInBlocks(solver: SolverPort, model: ModelArrays, request: SolveRequest, split: boolean): Promise<BlocksResult> {
   const blocks = split ? findIndependentBlocks(model) : [];
-  if (blocks.length <= 1) return { ...(await pool.solve({ ...job, model })), blocks: 1 };
+  if (blocks.length <= 1) return { ...(await solver.solve(model, request)), blocks: 1 };
 
   const stop = new AbortController();
   const abortAll = () => stop.abort();
-  job.signal?.addEventListener('abort', abortAll, { once: true });
+  request.signal?.addEventListener('abort', abortAll, { once: true });
   const parts = blocks.map((b) => blockModel(model, b));
-  const solvePart = async (k: number, extra: Partial<SolveJob> = {}): Promise<SolveJobResult> => {
-    const r = await pool.solve({
-      ...job,
+  const solvePart = async (k: number, extra: Partial<SolveRequest> = {}): Promise<SolveReply> => {
+    const r = await solver.solve(parts[k], {
+      ...request,
       ...extra,
-      model: parts[k],
       signal: stop.signal,
-      onLog: job.onLog && ((line) => job.onLog!(`[block ${k + 1}/${parts.length}] ${line}`)),
+      onLog: request.onLog && ((line) => request.onLog!(`[block ${k + 1}/${parts.length}] ${line}`)),
     });
     if (hopeless(r)) stop.abort();
     return r;
   };
   try {
-    const results = await settle(parts.map((_, k) => solvePart(k)), job.signal);
+    const results = await settle(parts.map((_, k) => solvePart(k)), request.signal);
     const failed = firstFailure(results);
     if (failed >= 0) return combineFailure(blocks, results, failed);
 
-    const first = combine(model, blocks, results as SolveJobResult[]);
-    if (first.status !== 'optimal' || first.mipGap === null || first.mipGap <= job.mipGap) return first;
-    const allowance = Math.max((job.mipGap * Math.abs(first.objective!)) / parts.length, 1e-9);
+    const first = combine(model, blocks, results as SolveReply[]);
+    if (first.status !== 'optimal' || first.mipGap === null || first.mipGap <= request.mipGap) return first;
+    const allowance = Math.max((request.mipGap * Math.abs(first.objective!)) / parts.length, TINY);
     const again = await settle(
-      (results as SolveJobResult[]).map((r, k) =>
+      (results as SolveReply[]).map((r, k) =>
         r.dualBound !== null && Math.abs(r.dualBound - r.objective!) > allowance ? solvePart(k, { mipGap: 0, mipAbsGap: allowance }) : Promise.resolve(r),
       ),
-      job.signal,
+      request.signal,
     );
     const failedAgain = firstFailure(again);
-    return failedAgain >= 0 ? combineFailure(blocks, again, failedAgain) : combine(model, blocks, again as SolveJobResult[]);
+    return failedAgain >= 0 ? combineFailure(blocks, again, failedAgain) : combine(model, blocks, again as SolveReply[]);
   } finally {
-    job.signal?.removeEventListener('abort', abortAll);
+    request.signal?.removeEventListener('abort', abortAll);
   }
 }
 
@@ -70,7 +70,7 @@ export async function solveInBlocks(pool: SolverPool, model: ModelArrays, job: O
  * Waits for every block, in block order; null for a block stopped because another failed. An
  * abort by the caller wins, and a block's own error is rethrown.
  */
-async function settle(promises: Promise<SolveJobResult>[], signal: AbortSignal | undefined): Promise<(SolveJobResult | null)[]> {
+async function settle(promises: Promise<SolveReply>[], signal: AbortSignal | undefined): Promise<(SolveReply | null)[]> {
   const settled = await Promise.allSettled(promises);
   if (signal?.aborted) throw new SolveAbortedError();
   return settled.map((s) => {
@@ -81,13 +81,13 @@ async function settle(promises: Promise<SolveJobResult>[], signal: AbortSignal |
 }
 
 /** The block whose failure decides, or −1; a block stopped early (null) means another failed. */
-function firstFailure(results: (SolveJobResult | null)[]): number {
+function firstFailure(results: (SolveReply | null)[]): number {
   const k = results.findIndex((r) => r !== null && hopeless(r));
   if (k < 0 && results.includes(null)) throw new SolveAbortedError();
   return k;
 }
 
-function combineFailure(blocks: ModelBlock[], results: (SolveJobResult | null)[], k: number): BlocksResult {
+function combineFailure(blocks: ModelBlock[], results: (SolveReply | null)[], k: number): BlocksResult {
   const failed = results[k]!;
   const iis = failed.iis && {
     rows: Int32Array.from(failed.iis.rows, (i) => blocks[k].rows[i]),
@@ -95,48 +95,43 @@ function combineFailure(blocks: ModelBlock[], results: (SolveJobResult | null)[]
   };
   return {
     ...failed,
-    status: failed.status,
     colValue: null,
     objective: null,
     dualBound: null,
     mipGap: null,
-    iis,
     rowDual: null,
+    iis,
     killedAtDeadline: results.some((r) => r?.killedAtDeadline === true),
     workerSeconds: results.reduce((sum, r) => sum + (r?.workerSeconds ?? 0), 0),
     blocks: blocks.length,
   };
 }
 
-function combine(model: ModelArrays, blocks: ModelBlock[], results: SolveJobResult[]): BlocksResult {
+function combine(model: ModelArrays, blocks: ModelBlock[], results: SolveReply[]): BlocksResult {
   const colValue = new Float64Array(model.numCols);
   let objective = 0;
   let dualBound: number | null = 0;
-  let nodes = 0;
-  let runSeconds = 0;
   let workerSeconds = 0;
   results.forEach((r, k) => {
     blocks[k].cols.forEach((j, c) => (colValue[j] = r.colValue![c]));
     objective += r.objective!;
     dualBound = dualBound === null || r.dualBound === null ? null : dualBound + r.dualBound;
-    nodes += r.nodes;
-    runSeconds = Math.max(runSeconds, r.runSeconds);
     workerSeconds += r.workerSeconds;
   });
   const optimal = results.every((r) => r.status === 'optimal');
   return {
     status: optimal ? 'optimal' : 'time-limit',
-    modelStatus: optimal ? results[0].modelStatus : -1,
+    solverStatus: (results.find((r) => r.status !== 'optimal') ?? results[0]).solverStatus,
     colValue,
     objective,
     dualBound,
     mipGap: dualBound === null ? null : relativeGap(objective, dualBound),
-    nodes,
-    runSeconds,
-    workerSeconds,
-    iis: null,
+    // Only a MIP splits (independent-blocks.ts gathers every part without binaries into one
+    // block), and a MIP has no duals: an LP's come back whole, from the single solve above.
     rowDual: null,
+    iis: null,
     killedAtDeadline: results.some((r) => r.killedAtDeadline),
+    workerSeconds,
     blocks: blocks.length,
   };
 }

@@ -4,7 +4,8 @@ import { windowsBetween, type RollingSegment } from './horizon-windows';
 import type { HorizonWindow, WindowEndState, WindowStartState } from './plan-window';
 import { createScheduleBuffers } from './schedule-buffers';
 import { endedWithoutSchedule, failedRecord, solveBudgetedWindow, solveSequence, type SequenceEnd, type SolveContext, type WindowRecord } from './solve-sequence';
-import { SolveAbortedError } from './solver-pool';
+import { SEAM_SOC_TOLERANCE } from './numerics';
+import { SolveAbortedError } from './solver-port';
 
 export interface HorizonSolve {
   /** The windows that made the schedule, in step order, then the seam probes. */
@@ -45,7 +46,7 @@ async function probeSeam(ctx: SolveContext, b: number, probes: WindowRecord[]): 
   const result = await solveBudgetedWindow(ctx, window, guess, scratch);
   probes.push({ kind: 'seam-probe', window, result });
   if (endedWithoutSchedule(result)) return null;
-  const start = advanceState(spec, guess, scratch, from, b);
+  const start = advanceState(spec, ctx.facts.chargeSteps, guess, scratch, from, b);
   const end: WindowEndState = {
     socKwh: start.socKwh.slice(),
     storeLevels: start.storeLevels.slice(),
@@ -58,7 +59,7 @@ async function probeSeam(ctx: SolveContext, b: number, probes: WindowRecord[]): 
 
 /** A segment ended in the state its successor started from (SOC, levels and ramped outputs within a millionth of their range). */
 function metSeam(spec: ResolvedSiteSpec, state: WindowStartState, seam: Seam): boolean {
-  return sameState(spec, state, seam.start, 1e-6);
+  return sameState(spec, state, seam.start, SEAM_SOC_TOLERANCE);
 }
 
 /**

@@ -1,15 +1,17 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { advanceState } from './carry-state';
-import type { HorizonWindow, WindowEndState, WindowStartState } from './plan-window';
+import type { HorizonWindow, SiteFacts, WindowEndState, WindowStartState } from './plan-window';
 import type { ScheduleBuffers } from './schedule-buffers';
 import type { SolveBudget } from './solve-budget';
 import { solveWindow, type WindowSolve } from './solve-window';
-import { SolveAbortedError, type SolverPool } from './solver-pool';
+import { SolveAbortedError, type SolverPort } from './solver-port';
 
 export interface SolveContext {
   spec: ResolvedSiteSpec;
+  /** Planning figures of the whole spec, computed once per solve. */
+  facts: SiteFacts;
   buffers: ScheduleBuffers;
-  pool: SolverPool;
+  solver: SolverPort;
   budget: SolveBudget;
   signal?: AbortSignal;
   onLog?: (line: string) => void;
@@ -40,9 +42,9 @@ export const failedRecord = (end: SequenceEnd): WindowRecord | null => (end.fail
 
 /** One window on the run's solver threads, within its share of the run's time. */
 export async function solveBudgetedWindow(ctx: SolveContext, window: HorizonWindow, start: WindowStartState, buffers: ScheduleBuffers): Promise<WindowSolve> {
-  const result = await solveWindow(ctx.spec, window, start, buffers, {
-    pool: ctx.pool,
-    timeLimitSeconds: ctx.budget.nextLimitSeconds(),
+  const result = await solveWindow(ctx.spec, ctx.facts, window, start, buffers, {
+    solver: ctx.solver,
+    deadline: ctx.budget.nextWindowDeadline(),
     signal: ctx.signal,
     onLog: ctx.onLog,
   });
@@ -72,7 +74,7 @@ export async function solveSequence(
     const result = await solveBudgetedWindow(ctx, window, state, ctx.buffers);
     records.push({ kind: 'window', window, result });
     if (endedWithoutSchedule(result)) return { records, statesBefore, state, failedAt: i };
-    state = advanceState(ctx.spec, state, ctx.buffers, window.from, window.from + window.commit);
+    state = advanceState(ctx.spec, ctx.facts.chargeSteps, state, ctx.buffers, window.from, window.from + window.commit);
   }
   return { records, statesBefore, state, failedAt: null };
 }

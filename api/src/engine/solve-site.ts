@@ -3,29 +3,35 @@ import type { ModelReport, ResultWarning, RunResult, SolveOutcome } from '@gridw
 import type { BigMEntry } from './build-window-model';
 import { initialState } from './carry-state';
 import { chooseSolveMode } from './choose-solve-mode';
-import { mergeRanges, type CoefficientRanges } from './coefficient-ranges';
+import { coefficientRangeWarning, mergeRanges, type CoefficientRanges } from './coefficient-ranges';
+import { Deadline } from './deadline';
+import { VERIFY_RELATIVE_TOLERANCE } from './numerics';
 import { objectiveTerms, sumTerms } from './evaluate-objective';
 import { monolithicWindow, rollingSegments } from './horizon-windows';
+import { siteFacts } from './plan-window';
 import { precheckInfeasibility } from './precheck-infeasibility';
 import { createScheduleBuffers, toSchedule } from './schedule-buffers';
 import { scheduleKpis } from './schedule-kpis';
 import { SolveBudget } from './solve-budget';
 import { solveRolling, type HorizonSolve } from './solve-rolling';
 import { failedRecord, solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
-import { defaultSolverPool, type SolverPool } from './solver-pool';
 import { specWarnings } from './spec-warnings';
+import type { SolverIdentity, SolverPort } from './solver-port';
 import { verifySchedule } from './verify-schedule';
 
-export { SolveAbortedError } from './solver-pool';
+/** What the engine computes for a spec: a run's result without the run's status, which the caller decides. */
+export type SiteSolution = Omit<RunResult, 'status'>;
 
 export interface SolveOptions {
-  /** Abort ⇒ the solver worker thread is terminated and solveSite rejects with SolveAbortedError. */
+  /** Solves every model; the engine runs up to its `concurrency` solves at once. */
+  solver: SolverPort;
+  /** When the whole solve must end (deadline.ts); default: the spec's time limit, from when the solver is ready. */
+  deadline?: Deadline;
+  /** Abort ⇒ every solve in flight is stopped and solveSite rejects with SolveAbortedError. */
   signal?: AbortSignal;
   onProgress?: (p: { windowsDone: number; windowsTotal: number }) => void;
-  /** HiGHS log lines. */
+  /** The solver's log lines. */
   onLog?: (line: string) => void;
-  /** Reuse worker threads across calls; default: a module-level pool. */
-  solver?: SolverPool;
 }
 
 /** The engine produced a schedule that its independent verifier rejects: an engine bug, never a result. */
@@ -42,7 +48,7 @@ export class ScheduleVerificationError extends Error {
   }
 }
 
-function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, version: string): ModelReport {
+function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, solver: SolverIdentity): ModelReport {
   return {
     mode,
     windows: [],
@@ -58,7 +64,7 @@ function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, ver
     scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])) },
     buildSeconds: 0,
     solveSeconds: 0,
-    solver: { name: 'HiGHS', version },
+    solver: { name: solver.name, version: solver.version },
   };
 }
 
@@ -103,6 +109,13 @@ function addWindows(spec: ResolvedSiteSpec, report: ModelReport, records: Window
   report.bigM = [...bigM].map(([where, value]) => ({ where, value }));
 }
 
+/** The solved models whose coefficients left the healthy band, with the steps each covered. */
+function offBandWindows(records: WindowRecord[]) {
+  return records
+    .filter((r) => Object.keys(r.result.rangesOutsideBand).length > 0)
+    .map((r) => ({ outside: r.result.rangesOutsideBand, steps: { from: r.window.from, to: r.window.from + r.window.steps - 1 } }));
+}
+
 function failureWarnings(spec: ResolvedSiteSpec, failed: WindowRecord): ResultWarning[] {
   const { window, result } = failed;
   const steps = { from: window.from, to: window.from + window.steps - 1 };
@@ -143,22 +156,22 @@ function failureWarnings(spec: ResolvedSiteSpec, failed: WindowRecord): ResultWa
 
 /**
  * Solves a site spec: pre-checks, then one model (monolithic) or windows (rolling), each
- * planned, built, solved by HiGHS in worker threads (split into independent blocks where the
- * model allows) and extracted into the stitched schedule, which the independent verifier
- * checks before anything is returned.
+ * planned, built, checked for healthy coefficient ranges, solved through the solver port (split
+ * into independent blocks where the model allows) and extracted into the stitched schedule,
+ * which the independent verifier checks before anything is returned.
  *
- * Resolves with a RunResult for every solver outcome (infeasible and no-solution included).
+ * Resolves with a SiteSolution for every solver outcome (infeasible and no-solution included).
  * Rejects with SolveAbortedError on abort, and with ScheduleVerificationError if the schedule
  * fails verification — that is an engine fault and must never be reported as a success.
  */
-export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions = {}): Promise<RunResult> {
-  const pool = opts.solver ?? defaultSolverPool();
-  const version = await pool.version();
+export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Promise<SiteSolution> {
+  const { solver } = opts;
+  const identity = await solver.describe();
+  const deadline = opts.deadline ?? Deadline.after(spec.solver.timeLimitSeconds);
   const mode = chooseSolveMode(spec);
-  const report = emptyReport(mode, spec, version);
+  const report = emptyReport(mode, spec, identity);
   const warnings = specWarnings(spec);
-  const noSchedule = (outcome: SolveOutcome, extra: ResultWarning[]): RunResult => ({
-    status: 'succeeded',
+  const noSchedule = (outcome: SolveOutcome, extra: ResultWarning[]): SiteSolution => ({
     outcome,
     objective: { value: null, bound: null, gap: null },
     kpis: null,
@@ -171,9 +184,9 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions = {})
 
   const segments = mode === 'rolling' ? rollingSegments(spec) : null;
   const windowsPlanned = segments ? segments.reduce((n, s) => n + s.windows.length, 0) + segments.length - 1 : 1;
-  const budget = new SolveBudget(spec.solver.timeLimitSeconds, windowsPlanned, segments ? Math.min(pool.threads, segments.length) : 1, opts.onProgress);
+  const budget = new SolveBudget(deadline, windowsPlanned, segments ? Math.min(solver.concurrency, segments.length) : 1, opts.onProgress);
   const buffers = createScheduleBuffers(spec);
-  const ctx: SolveContext = { spec, buffers, pool, budget, signal: opts.signal, onLog: opts.onLog };
+  const ctx: SolveContext = { spec, facts: siteFacts(spec), buffers, solver, budget, signal: opts.signal, onLog: opts.onLog };
   let solved: HorizonSolve;
   if (segments) solved = await solveRolling(ctx, segments);
   else {
@@ -182,24 +195,32 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions = {})
   }
   report.segments = solved.segments;
   addWindows(spec, report, solved.records);
+  const numerics = coefficientRangeWarning(spec, offBandWindows(solved.records));
+  if (numerics) warnings.push(numerics);
   if (solved.failed) return noSchedule(solved.failed.result.outcome, failureWarnings(spec, solved.failed));
 
   const schedule = toSchedule(spec, buffers);
   const check = verifySchedule(spec, schedule);
   if (!check.ok) throw new ScheduleVerificationError(check.violations);
-  const terms = objectiveTerms(spec, buffers);
+  const terms = objectiveTerms(spec, ctx.facts.chargeSteps, buffers);
+  const value = sumTerms(terms);
+  // The verifier recomputes the objective from the schedule alone, term by term; the two must agree.
+  if (Math.abs(check.objective - value) > VERIFY_RELATIVE_TOLERANCE * Math.max(1, Math.abs(value))) {
+    throw new ScheduleVerificationError([
+      { code: 'objective-mismatch', message: `the schedule's objective is ${value}; recomputed independently it is ${check.objective}` },
+    ]);
+  }
   // A schedule stitched from windows is feasible, never proved optimal for the whole horizon.
   const whole = solved.records.length === 1 && solved.records[0].window.steps === spec.horizon.steps;
   const single = whole ? solved.records[0].result : null;
   return {
-    status: 'succeeded',
     outcome: single?.outcome === 'optimal' ? 'optimal' : 'feasible',
     objective: {
-      value: sumTerms(terms),
+      value,
       bound: single ? single.bound : null,
       gap: single ? single.gap : null,
     },
-    kpis: scheduleKpis(spec, buffers, terms),
+    kpis: scheduleKpis(spec, ctx.facts.chargeSteps, buffers, terms),
     schedule,
     model: report,
     warnings,

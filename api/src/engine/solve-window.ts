@@ -2,15 +2,16 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning, SolveOutcome } from '@gridwright/shared/run-result';
 import { buildWindowModel, type BigMEntry } from './build-window-model';
 import type { Scales } from './choose-scales';
-import { coefficientRanges, type CoefficientRanges } from './coefficient-ranges';
+import { coefficientRanges, rangesOutsideBand, type CoefficientRanges } from './coefficient-ranges';
+import type { Deadline } from './deadline';
 import { diagnoseInfeasibleSubsystem } from './diagnose-infeasible-subsystem';
 import { extractWindowSchedule } from './extract-window-schedule';
-import { planWindow, type ForcedBinaries, type HorizonWindow, type WindowStartState } from './plan-window';
+import { planWindow, type ForcedBinaries, type HorizonWindow, type SiteFacts, type WindowStartState } from './plan-window';
 import { repairExclusivity } from './repair-exclusivity';
 import type { ScheduleBuffers } from './schedule-buffers';
 import { priceWindow } from './price-window';
 import { solveInBlocks } from './solve-in-blocks';
-import type { SolverPool } from './solver-pool';
+import type { SolverPort } from './solver-port';
 
 /** Re-solves with the exclusivity binaries a relaxed solution could not do without; the last round keeps them all. */
 const EXCLUSIVITY_ROUNDS = 3;
@@ -31,14 +32,17 @@ export interface WindowSolve {
   constraints: number;
   nonzeros: number;
   ranges: CoefficientRanges;
+  /** The kinds of coefficient that left the healthy band (numerics.ts), checked before the solve. */
+  rangesOutsideBand: Partial<CoefficientRanges>;
   bigM: BigMEntry[];
   scale: Scales;
   diagnosis: ResultWarning[];
 }
 
 export interface WindowSolveOptions {
-  pool: SolverPool;
-  timeLimitSeconds: number;
+  solver: SolverPort;
+  /** The window's share of the run's time: its blocks and re-solves all end by it. */
+  deadline: Deadline;
   signal?: AbortSignal;
   onLog?: (line: string) => void;
 }
@@ -52,13 +56,13 @@ const now = () => performance.now() / 1000;
  */
 export async function solveWindow(
   spec: ResolvedSiteSpec,
+  facts: SiteFacts,
   window: HorizonWindow,
   start: WindowStartState,
   buffers: ScheduleBuffers,
   opts: WindowSolveOptions,
 ): Promise<WindowSolve> {
   const forced: ForcedBinaries = { storage: spec.storage.map(() => new Set<number>()), grid: new Set<number>() };
-  const deadlineMs = performance.now() + opts.timeLimitSeconds * 1000;
   let buildSeconds = 0;
   let solveSeconds = 0;
   for (let round = 0; ; round++) {
@@ -69,15 +73,16 @@ export async function solveWindow(
       }
     }
     const t0 = now();
-    const plan = planWindow(spec, window, start, forced);
+    const plan = planWindow(spec, facts, window, start, forced);
     const built = buildWindowModel(plan);
     buildSeconds += now() - t0;
+    const ranges = coefficientRanges(built.model);
+    const outside = rangesOutsideBand(ranges);
     const res = await solveInBlocks(
-      opts.pool,
+      opts.solver,
       built.model,
       {
-        timeLimitSeconds: opts.timeLimitSeconds,
-        deadlineMs,
+        deadline: opts.deadline,
         mipGap: spec.solver.mipGap,
         wantIis: built.model.numCols <= IIS_MAX_COLUMNS,
         signal: opts.signal,
@@ -95,7 +100,8 @@ export async function solveWindow(
       binariesBefore: plan.binariesBefore,
       constraints: built.model.numRows,
       nonzeros: built.model.values.length,
-      ranges: coefficientRanges(built.model),
+      ranges,
+      rangesOutsideBand: outside,
       bigM: built.bigM,
       scale: plan.scales,
     };
@@ -105,14 +111,14 @@ export async function solveWindow(
         return { ...base, outcome: 'infeasible', gap: null, bound: null, diagnosis };
       }
       if (res.status === 'time-limit') return { ...base, outcome: 'no-solution', gap: null, bound: null, diagnosis: [] };
-      throw new Error(`HiGHS ended with status ${res.status} (model status ${res.modelStatus}) on steps ${window.from}–${window.from + window.steps - 1}`);
+      throw new Error(`The solver ended with status ${res.status} (${res.solverStatus}) on steps ${window.from}–${window.from + window.steps - 1}`);
     }
     extractWindowSchedule(plan, built, res.colValue, buffers);
     const left = repairExclusivity(spec, buffers, window.from, window.from + window.commit);
     const unrepaired = left.grid.length + left.storage.reduce((n, s) => n + s.length, 0);
     if (unrepaired === 0 || round === EXCLUSIVITY_ROUNDS - 1) {
       const proved = res.status === 'optimal' && !res.killedAtDeadline;
-      const priced = await priceWindow(opts.pool, plan, built, res.colValue, buffers, { deadlineMs, signal: opts.signal });
+      const priced = await priceWindow(opts.solver, plan, built, res.colValue, buffers, { deadline: opts.deadline, signal: opts.signal });
       return {
         ...base,
         solveSeconds: solveSeconds + priced.workerSeconds,

@@ -1,22 +1,15 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning } from '@gridwright/shared/run-result';
-import { demandChargeSteps } from './demand-charge-steps';
+import { nonZeroSpan } from './coefficient-ranges';
+import { MAGNITUDE_SPREAD_LIMIT } from './numerics';
 import { precheckInfeasibility } from './precheck-infeasibility';
-import { unitRatings } from './unit-ratings';
+import { demandChargeSteps } from './demand-charge-steps';
+import { ratingSums, reachableKw } from './site-ratings';
 
-/** Ratios beyond this between the smallest and largest non-zero figure of one kind get a warning. */
-const SPREAD_LIMIT = 1e6;
-
+/** The smallest and largest non-zero figure when they lie more than MAGNITUDE_SPREAD_LIMIT apart. */
 function spread(values: number[]): [number, number] | null {
-  let lo = Infinity;
-  let hi = 0;
-  for (const v of values) {
-    const a = Math.abs(v);
-    if (a === 0) continue;
-    lo = Math.min(lo, a);
-    hi = Math.max(hi, a);
-  }
-  return hi > 0 && hi / lo > SPREAD_LIMIT ? [lo, hi] : null;
+  const span = nonZeroSpan(values);
+  return span && span[1] / span[0] > MAGNITUDE_SPREAD_LIMIT ? span : null;
 }
 
 /**
@@ -26,23 +19,13 @@ function spread(values: number[]): [number, number] | null {
 export function specWarnings(spec: ResolvedSiteSpec): ResultWarning[] {
   const warnings = precheckInfeasibility(spec);
   const T = spec.horizon.steps;
-  const { generatorKw: genRatings, flexibleKw: flexRatings } = unitRatings(spec);
-  let charge = 0;
-  let discharge = 0;
-  for (const s of spec.storage) {
-    charge += s.maxChargeKw;
-    discharge += s.maxDischargeKw;
-  }
-  const hard = spec.siteLoad.unservedPenaltyPerKwh === null;
+  const sums = ratingSums(spec);
 
   spec.units.forEach((u, i) => {
     if (u.minStableKw <= 0) return;
     let best = 0;
     for (let t = 0; t < T; t++) {
-      const reach =
-        u.kind === 'generator'
-          ? spec.siteLoad.kw[t] + spec.grid.exportLimitKw + flexRatings + charge
-          : spec.supply.availableKw[t] + spec.grid.importLimitKw + genRatings + discharge - (hard ? spec.siteLoad.kw[t] : 0);
+      const reach = reachableKw(spec, sums, u.kind, t);
       if (reach > best) best = reach;
     }
     if (best < u.minStableKw) {
@@ -76,7 +59,7 @@ export function specWarnings(spec: ResolvedSiteSpec): ResultWarning[] {
   if (priceSpread) {
     warnings.push({
       code: 'magnitude-spread',
-      message: `Prices and costs span ${priceSpread[0]} to ${priceSpread[1]}: more than ${SPREAD_LIMIT.toExponential(0)} apart, which strains the solver's tolerances.`,
+      message: `Prices and costs span ${priceSpread[0]} to ${priceSpread[1]}: more than ${MAGNITUDE_SPREAD_LIMIT.toExponential(0)} apart, which strains the solver's tolerances.`,
       pointer: '/grid',
     });
   }
@@ -90,7 +73,7 @@ export function specWarnings(spec: ResolvedSiteSpec): ResultWarning[] {
   if (powerSpread) {
     warnings.push({
       code: 'magnitude-spread',
-      message: `Ratings span ${powerSpread[0]} to ${powerSpread[1]} kW/kWh: more than ${SPREAD_LIMIT.toExponential(0)} apart, which strains the solver's tolerances.`,
+      message: `Ratings span ${powerSpread[0]} to ${powerSpread[1]} kW/kWh: more than ${MAGNITUDE_SPREAD_LIMIT.toExponential(0)} apart, which strains the solver's tolerances.`,
       pointer: '/units',
     });
   }

@@ -1,5 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
-import { toJsonPointer } from './json-pointer';
+import { escapeToken, unescapeToken } from '@gridwright/shared/json-pointer';
 import type { Logger } from './logger';
 import { HttpProblem, problemType, type ProblemBody, type ProblemFieldError } from './problem';
 
@@ -23,8 +23,8 @@ export function escapeUnknownProperty(pointer: string, body: unknown): string {
   let node: unknown = body;
   for (let i = 0; i < tokens.length && node && typeof node === 'object'; i++) {
     const rest = tokens.slice(i).join('/');
-    if (Object.prototype.hasOwnProperty.call(node, rest)) return `${tokens.slice(0, i).map((t) => `/${t}`).join('')}${toJsonPointer([rest])}`;
-    node = (node as Record<string, unknown>)[tokens[i].replace(/~1/g, '/').replace(/~0/g, '~')];
+    if (Object.prototype.hasOwnProperty.call(node, rest)) return `${tokens.slice(0, i).map((t) => `/${t}`).join('')}/${escapeToken(rest)}`;
+    node = (node as Record<string, unknown>)[unescapeToken(tokens[i])];
   }
   return pointer;
 }

@@ -1,11 +1,9 @@
 import { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
-import { auditEventView, listAuditEvents } from '../services/audit';
-import { inviteMember } from '../services/members';
-import { createTenant, getTenantOr404, listTenants, setTenantSuspended, tenantView, updateTenant } from '../services/tenants';
+import { auditActorOf, auditEventView, listAuditEvents } from '../services/audit';
+import { createTenantWithOwner, getTenantOr404, listTenants, setTenantSuspended, tenantView, updateTenant } from '../services/tenants';
 import { usageReport } from '../services/usage';
-import { actorFor } from './members';
 
 export function adminTenantsRouter(ctx: AppContext): Router {
   const r = Router();
@@ -18,11 +16,8 @@ export function adminTenantsRouter(ctx: AppContext): Router {
   });
 
   r.post('/v1/admin/tenants', auth, operate, async (req, res) => {
-    const actor = await actorFor(ctx, req);
-    const tenant = await createTenant(ctx, { slug: req.body.slug, name: req.body.name, planId: req.body.planId }, actor);
-    if (req.body.ownerEmail) {
-      await inviteMember(ctx, { tenantId: tenant.id, email: req.body.ownerEmail, role: 'owner', invitedBy: req.principal!.userId ?? null }, actor);
-    }
+    const input = { slug: req.body.slug, name: req.body.name, planId: req.body.planId, ownerEmail: req.body.ownerEmail };
+    const tenant = await createTenantWithOwner(ctx, input, await auditActorOf(ctx, req.principal), req.principal!.userId ?? null);
     res.status(201).json(await tenantView(ctx.db.manager, tenant));
   });
 
@@ -31,17 +26,17 @@ export function adminTenantsRouter(ctx: AppContext): Router {
   });
 
   r.patch('/v1/admin/tenants/:id', auth, operate, async (req, res) => {
-    const tenant = await updateTenant(ctx, req.params.id as string, req.body, await actorFor(ctx, req));
+    const tenant = await updateTenant(ctx, req.params.id as string, req.body, await auditActorOf(ctx, req.principal));
     res.json(await tenantView(ctx.db.manager, tenant));
   });
 
   r.post('/v1/admin/tenants/:id/suspend', auth, operate, async (req, res) => {
-    const tenant = await setTenantSuspended(ctx, req.params.id as string, true, req.body?.reason ?? null, await actorFor(ctx, req));
+    const tenant = await setTenantSuspended(ctx, req.params.id as string, true, req.body?.reason ?? null, await auditActorOf(ctx, req.principal));
     res.json(await tenantView(ctx.db.manager, tenant));
   });
 
   r.post('/v1/admin/tenants/:id/resume', auth, operate, async (req, res) => {
-    const tenant = await setTenantSuspended(ctx, req.params.id as string, false, null, await actorFor(ctx, req));
+    const tenant = await setTenantSuspended(ctx, req.params.id as string, false, null, await auditActorOf(ctx, req.principal));
     res.json(await tenantView(ctx.db.manager, tenant));
   });
 

@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { auditActorOf } from '../services/audit';
 import { apiKeyView, createApiKey, getApiKey, listApiKeys, revokeApiKey } from '../services/api-keys';
-import { actorFor } from './members';
 
 export function apiKeysRouter(ctx: AppContext): Router {
   const r = Router();
@@ -27,7 +27,7 @@ export function apiKeysRouter(ctx: AppContext): Router {
         expiresAt: req.body.expiresAt ? new Date(req.body.expiresAt) : null,
         createdBy: req.principal!.userId ?? null,
       },
-      await actorFor(ctx, req),
+      await auditActorOf(ctx, req.principal),
     );
     res.status(201).setHeader('Cache-Control', 'no-store').json({ key, apiKey: apiKeyView(apiKey) });
   });
@@ -37,7 +37,7 @@ export function apiKeysRouter(ctx: AppContext): Router {
   });
 
   r.post('/v1/api-keys/:id/revoke', auth, authorize('keys.manage'), async (req, res) => {
-    res.json(apiKeyView(await revokeApiKey(ctx, req.principal!.tenantId, req.params.id as string, await actorFor(ctx, req))));
+    res.json(apiKeyView(await revokeApiKey(ctx, req.principal!.tenantId, req.params.id as string, await auditActorOf(ctx, req.principal))));
   });
 
   return r;

@@ -1,16 +1,12 @@
 import { Router, type Request, type Response } from 'express';
 import { authenticate, authorize, unauthenticated } from '../auth/middleware';
 import type { AppContext } from '../context';
-import { Session } from '../db/entities/session';
-import { User } from '../db/entities/user';
-import { recordAudit } from '../services/audit';
+import { changePassword, signedInAccount, signOut, type ClientInfo } from '../services/account';
 import { acceptInvitation } from '../services/members';
-import { assertPasswordAcceptable, hashPassword, verifyPassword } from '../services/passwords';
 import { completePasswordReset, requestPasswordReset } from '../services/password-reset';
 import { sessionView } from '../services/session-view';
-import { CSRF_COOKIE, SESSION_COOKIE, createSession, revokeSession, revokeUserSessions } from '../services/sessions';
+import { CSRF_COOKIE, SESSION_COOKIE, createSession } from '../services/sessions';
 import { signIn } from '../services/sign-in';
-import { HttpProblem } from '../lib/problem';
 
 function setSessionCookies(ctx: AppContext, res: Response, token: string, csrf: string) {
   const common = { secure: ctx.config.cookieSecure, path: '/', maxAge: ctx.config.sessionMinutes * 60_000 };
@@ -24,57 +20,33 @@ function clearSessionCookies(ctx: AppContext, res: Response) {
   res.clearCookie(CSRF_COOKIE, { path: '/', secure: ctx.config.cookieSecure, sameSite: 'strict' });
 }
 
-async function signedInUser(ctx: AppContext, req: Request) {
-  const user = await ctx.db.getRepository(User).findOneBy({ id: req.principal!.userId! });
-  const session = await ctx.db.getRepository(Session).findOneBy({ id: req.principal!.sessionId! });
-  if (!user || !session) throw unauthenticated('The session is not known.');
-  return { user, session };
-}
+const clientOf = (req: Request): ClientInfo => ({ ip: req.ip ?? null, userAgent: req.get('user-agent') ?? null });
 
 export function authRouter(ctx: AppContext): Router {
   const r = Router();
   const auth = authenticate(ctx);
 
   r.post('/v1/auth/sign-in', async (req, res) => {
-    const { user, session, token } = await signIn(ctx, { email: req.body.email, password: req.body.password, ip: req.ip ?? null, userAgent: req.get('user-agent') ?? null });
+    const { user, session, token } = await signIn(ctx, { email: req.body.email, password: req.body.password, ...clientOf(req) });
     setSessionCookies(ctx, res, token, session.csrfToken);
     res.json(await sessionView(ctx, user, session));
   });
 
   r.post('/v1/auth/sign-out', auth, authorize('account.self'), async (req, res) => {
-    const { user } = await signedInUser(ctx, req);
-    await revokeSession(ctx.db.manager, req.principal!.sessionId!, 'signed out');
-    await recordAudit(ctx.db.manager, { tenantId: user.tenantId, action: 'sign-out', actor: { userId: user.id, email: user.email }, target: user.email, ip: req.ip });
+    await signOut(ctx, req.principal!, clientOf(req));
     clearSessionCookies(ctx, res);
     res.status(204).end();
   });
 
   r.get('/v1/auth/session', auth, authorize('account.self'), async (req, res) => {
     if (req.principal!.kind !== 'session') throw unauthenticated('This route describes a signed-in session; API keys have none.');
-    const { user, session } = await signedInUser(ctx, req);
+    const { user, session } = await signedInAccount(ctx, req.principal!);
     res.json(await sessionView(ctx, user, session, req.principal));
   });
 
   r.post('/v1/auth/password', auth, authorize('account.self'), async (req, res) => {
     if (req.principal!.kind !== 'session') throw unauthenticated('Only a signed-in person can change a password.');
-    const { user } = await signedInUser(ctx, req);
-    if (!(await verifyPassword(req.body.currentPassword, user.passwordHash))) {
-      throw new HttpProblem({
-        status: 400,
-        slug: 'wrong-password',
-        title: 'Current password is wrong',
-        detail: 'The current password does not match.',
-        errors: [{ pointer: '/currentPassword', message: 'does not match' }],
-      });
-    }
-    assertPasswordAcceptable(req.body.newPassword, '/newPassword');
-    const passwordHash = await hashPassword(ctx.config, req.body.newPassword);
-    await ctx.db.transaction(async (m) => {
-      await m.update(User, { id: user.id }, { passwordHash, passwordChangedAt: new Date() });
-      await revokeUserSessions(m, user.id, 'password changed');
-      await recordAudit(m, { tenantId: user.tenantId, action: 'password-changed', actor: { userId: user.id, email: user.email }, target: user.email, ip: req.ip });
-    });
-    const { session, token } = await createSession(ctx, user, { ip: req.ip ?? null, userAgent: req.get('user-agent') ?? null });
+    const { user, session, token } = await changePassword(ctx, req.principal!, { currentPassword: req.body.currentPassword, newPassword: req.body.newPassword }, clientOf(req));
     setSessionCookies(ctx, res, token, session.csrfToken);
     res.json(await sessionView(ctx, user, session));
   });
@@ -92,7 +64,7 @@ export function authRouter(ctx: AppContext): Router {
 
   r.post('/v1/auth/invitations/accept', async (req, res) => {
     const user = await acceptInvitation(ctx, { token: req.body.token, password: req.body.password, name: req.body.name });
-    const { session, token } = await createSession(ctx, user, { ip: req.ip ?? null, userAgent: req.get('user-agent') ?? null });
+    const { session, token } = await createSession(ctx, user, clientOf(req));
     setSessionCookies(ctx, res, token, session.csrfToken);
     res.status(201).json(await sessionView(ctx, user, session));
   });

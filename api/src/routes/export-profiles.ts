@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { delimiterName, delimiterNamed } from '../lib/csv-delimiters';
 import {
   createExportProfile,
   deleteExportProfile,
@@ -10,11 +11,10 @@ import {
   updateExportProfile,
 } from '../services/export-profiles';
 
-const DELIMITERS: Record<string, string> = { ',': ',', ';': ';', tab: '\t', '|': '|' };
-const withDelimiter = <T extends { delimiter?: string }>(body: T): T => (body.delimiter ? { ...body, delimiter: DELIMITERS[body.delimiter] } : body);
+const withDelimiter = <T extends { delimiter?: string }>(body: T): T => (body.delimiter ? { ...body, delimiter: delimiterNamed(body.delimiter) } : body);
 const viewWithDelimiterName = (p: Parameters<typeof exportProfileView>[0]) => {
   const view = exportProfileView(p);
-  return { ...view, delimiter: view.delimiter === '\t' ? 'tab' : view.delimiter };
+  return { ...view, delimiter: delimiterName(view.delimiter) };
 };
 
 export function exportProfilesRouter(ctx: AppContext): Router {

@@ -1,16 +1,17 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
-import { Invitation } from '../db/entities/invitation';
-import { User } from '../db/entities/user';
-import { notFound } from '../lib/problem';
-import { actorOf } from '../services/audit';
-import { changeMemberRole, invitationView, inviteMember, listMembers, listPendingInvitations, removeMember, userView } from '../services/members';
-
-async function actorFor(ctx: AppContext, req: Request) {
-  const email = req.principal?.userId ? (await ctx.db.getRepository(User).findOneBy({ id: req.principal.userId }))?.email : null;
-  return actorOf(req.principal, email);
-}
+import { auditActorOf } from '../services/audit';
+import {
+  changeMemberRole,
+  invitationView,
+  inviteMember,
+  listMembers,
+  listPendingInvitations,
+  removeMember,
+  revokeInvitation,
+  userView,
+} from '../services/members';
 
 export function membersRouter(ctx: AppContext): Router {
   const r = Router();
@@ -21,11 +22,11 @@ export function membersRouter(ctx: AppContext): Router {
     res.json({ items: page.items.map(userView), nextCursor: page.nextCursor });
   });
 
-  const invite = async (req: Request, res: import('express').Response) => {
+  const invite = async (req: Request, res: Response) => {
     const { invitation } = await inviteMember(
       ctx,
       { tenantId: req.principal!.tenantId, email: req.body.email, role: req.body.role, invitedBy: req.principal!.userId ?? null },
-      await actorFor(ctx, req),
+      await auditActorOf(ctx, req.principal),
     );
     res.status(201).json(invitationView(invitation));
   };
@@ -37,28 +38,19 @@ export function membersRouter(ctx: AppContext): Router {
   });
 
   r.delete('/v1/members/invitations/:id', auth, authorize('members.manage'), async (req, res) => {
-    const result = await ctx.db
-      .getRepository(Invitation)
-      .createQueryBuilder()
-      .update()
-      .set({ revokedAt: () => 'now()' })
-      .where('id = :id AND tenant_id = :tenantId AND accepted_at IS NULL AND revoked_at IS NULL', { id: req.params.id, tenantId: req.principal!.tenantId })
-      .execute();
-    if (!result.affected) throw notFound(`Invitation ${req.params.id}`);
+    await revokeInvitation(ctx, req.principal!.tenantId, req.params.id as string);
     res.status(204).end();
   });
 
   r.patch('/v1/members/:id', auth, authorize('members.manage'), async (req, res) => {
-    const user = await changeMemberRole(ctx, req.principal!.tenantId, req.params.id as string, req.body.role, await actorFor(ctx, req));
+    const user = await changeMemberRole(ctx, req.principal!.tenantId, req.params.id as string, req.body.role, await auditActorOf(ctx, req.principal));
     res.json(userView(user));
   });
 
   r.delete('/v1/members/:id', auth, authorize('members.manage'), async (req, res) => {
-    await removeMember(ctx, req.principal!.tenantId, req.params.id as string, await actorFor(ctx, req));
+    await removeMember(ctx, req.principal!.tenantId, req.params.id as string, await auditActorOf(ctx, req.principal));
     res.status(204).end();
   });
 
   return r;
 }
-
-export { actorFor };

@@ -1,17 +1,15 @@
 import { Router, type Request } from 'express';
+import type { RunStatus } from '@gridwright/shared/run-result';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
-import type { RunStatus } from '../db/entities/run';
-import { HttpProblem } from '../lib/problem';
-import { getExportProfile } from '../services/export-profiles';
+import { cancelRun } from '../runs/cancellation';
+import { delimiterNamed } from '../lib/csv-delimiters';
+import { getRun, listRunDeliveries, listRuns } from '../runs/reading';
+import { getRunSchedule, scheduleCsvFor, type ScheduleCsvChoices } from '../runs/schedule-export';
+import { submitRun } from '../runs/submission';
+import { runDetail, runSummary } from '../runs/view';
 import { parseIdempotencyKey } from '../services/idempotency';
-import { cancelRun, getRun, listRuns, submitRun } from '../services/runs';
-import { runDetail, runSummary } from '../services/run-view';
-import { scheduleToCsv, type ScheduleCsvOptions } from '../services/schedule-csv';
-import { deliveryView, listDeliveries } from '../services/webhooks';
-import type { Schedule } from '@gridwright/shared/run-result';
-
-const DELIMITERS: Record<string, string> = { ',': ',', ';': ';', tab: '\t', '|': '|' };
+import { deliveryView } from '../services/webhooks';
 
 const actorOf = (req: Request) => {
   const p = req.principal!;
@@ -24,14 +22,13 @@ function queryString(q: Record<string, unknown>) {
   return params.toString();
 }
 
-async function csvOptions(ctx: AppContext, req: Request): Promise<ScheduleCsvOptions> {
+function csvChoices(req: Request): ScheduleCsvChoices {
   const q = req.query as Record<string, string | undefined>;
-  const profile = q.profile ? await getExportProfile(ctx, req.principal!.tenantId, q.profile) : null;
   return {
-    powerUnit: (q.powerUnit as 'kW' | 'MW' | undefined) ?? profile?.powerUnit ?? 'kW',
-    timestamps: (q.timestamps as 'utc' | 'offset' | undefined) ?? profile?.timestamps ?? 'utc',
-    delimiter: q.delimiter ? DELIMITERS[q.delimiter] : (profile?.delimiter ?? ','),
-    tagMap: profile?.tagMap ?? {},
+    profile: q.profile,
+    powerUnit: q.powerUnit as ScheduleCsvChoices['powerUnit'],
+    timestamps: q.timestamps as ScheduleCsvChoices['timestamps'],
+    delimiter: q.delimiter ? delimiterNamed(q.delimiter) : undefined,
   };
 }
 
@@ -79,20 +76,10 @@ export function runsRouter(ctx: AppContext): Router {
   });
 
   r.get('/v1/runs/:runId/schedule', auth, authorize('runs.read'), async (req, res) => {
-    const run = await getRun(ctx, req.principal!.tenantId, String(req.params.runId));
-    const schedule = (run.result as { schedule?: Schedule | null } | null)?.schedule;
-    if (!schedule) {
-      throw new HttpProblem({
-        status: 409,
-        slug: 'no-schedule',
-        title: 'No schedule yet',
-        detail: run.result ? `Run ${run.id} ended ${run.outcome ?? run.status} without a schedule.` : `Run ${run.id} is ${run.status}; the schedule exists once it has succeeded.`,
-        extensions: { runStatus: run.status, outcome: run.outcome },
-      });
-    }
+    const { run, schedule } = await getRunSchedule(ctx, req.principal!.tenantId, String(req.params.runId));
     const wantsCsv = req.query.format === 'csv' || (req.query.format === undefined && req.accepts(['application/json', 'text/csv']) === 'text/csv');
     if (!wantsCsv) return res.json(schedule);
-    const csv = scheduleToCsv(schedule, await csvOptions(ctx, req));
+    const csv = await scheduleCsvFor(ctx, req.principal!.tenantId, schedule, csvChoices(req));
     res
       .type('text/csv; charset=utf-8; header=present')
       .setHeader('Content-Disposition', `attachment; filename="run-${run.id}-schedule.csv"`)
@@ -105,9 +92,7 @@ export function runsRouter(ctx: AppContext): Router {
   });
 
   r.get('/v1/runs/:runId/webhook-deliveries', auth, authorize('webhooks.read'), async (req, res) => {
-    const run = await getRun(ctx, req.principal!.tenantId, String(req.params.runId));
-    const deliveries = await listDeliveries(ctx, { tenantId: run.tenantId, runId: run.id });
-    res.json({ items: deliveries.map(deliveryView) });
+    res.json({ items: (await listRunDeliveries(ctx, req.principal!.tenantId, String(req.params.runId))).map(deliveryView) });
   });
 
   return r;

@@ -2,12 +2,11 @@ import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { delimiterNamed } from '../lib/csv-delimiters';
 import { HttpProblem, validationProblem } from '../lib/problem';
 import { getSeries, listSeries, seriesDetail, seriesSummary, uploadSeries } from '../services/series';
 import type { PowerUnit } from '../services/series-csv';
 import type { FillPolicy } from '../services/series-resample';
-
-const DELIMITERS: Record<string, string> = { ',': ',', ';': ';', tab: '\t', '|': '|' };
 
 /**
  * multer reads the multipart body here, after authentication, because the OpenAPI validator runs
@@ -50,7 +49,7 @@ export function seriesRouter(ctx: AppContext): Router {
       timestampFormat: q.timestampFormat,
       unit: q.unit as PowerUnit | undefined,
       fill: q.fill as FillPolicy | undefined,
-      delimiter: q.delimiter ? DELIMITERS[q.delimiter] : undefined,
+      delimiter: q.delimiter ? delimiterNamed(q.delimiter) : undefined,
       timestampColumn: q.timestampColumn,
       columns: q.columns ? q.columns.split(',') : undefined,
       name: q.name,

@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { auditActorOf } from '../services/audit';
 import { getTenantOr404, listPlans, planView, tenantView, updateTenant } from '../services/tenants';
-import { actorFor } from './members';
 
 export function tenantRouter(ctx: AppContext): Router {
   const r = Router();
@@ -17,7 +17,7 @@ export function tenantRouter(ctx: AppContext): Router {
   });
 
   r.put('/v1/tenant/plan', auth, authorize('plan.manage'), async (req, res) => {
-    const tenant = await updateTenant(ctx, req.principal!.tenantId, { planId: req.body.planId }, await actorFor(ctx, req));
+    const tenant = await updateTenant(ctx, req.principal!.tenantId, { planId: req.body.planId }, await auditActorOf(ctx, req.principal));
     res.json(await tenantView(ctx.db.manager, tenant));
   });
 

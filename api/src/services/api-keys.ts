@@ -1,11 +1,12 @@
 import { randomBytes } from 'node:crypto';
 import { IsNull } from 'typeorm';
-import type { Scope } from '../auth/principal';
 import type { AppContext } from '../context';
 import { ApiKey } from '../db/entities/api-key';
-import { paginateNewestFirst } from '../lib/pagination';
+import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import type { Scope } from '../lib/roles-and-scopes';
 import { safeEqual, sha256Hex } from '../lib/secret-tokens';
+import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
 
 // `gw_<12 hex: prefix, stored and shown>_<43 base64url: secret>`; the whole key is hashed.
@@ -67,14 +68,14 @@ export async function verifyApiKey(ctx: AppContext, raw: string): Promise<{ ok: 
   return { ok: true, apiKey };
 }
 
-export function listApiKeys(ctx: AppContext, tenantId: string, opts: { cursor?: string; limit?: number; includeRevoked?: boolean }) {
+export function listApiKeys(ctx: AppContext, tenantId: string, opts: PageQuery & { includeRevoked?: boolean }) {
   const qb = ctx.db.getRepository(ApiKey).createQueryBuilder('k').where('k.tenant_id = :tenantId', { tenantId });
   if (!opts.includeRevoked) qb.andWhere('k.revoked_at IS NULL');
-  return paginateNewestFirst(qb, 'api_keys', opts);
+  return pageNewestFirst(qb, opts);
 }
 
 export async function getApiKey(ctx: AppContext, tenantId: string, id: string): Promise<ApiKey> {
-  const key = /^[0-9a-f-]{36}$/.test(id) ? await ctx.db.getRepository(ApiKey).findOneBy({ id, tenantId }) : null;
+  const key = isUuid(id) ? await ctx.db.getRepository(ApiKey).findOneBy({ id, tenantId }) : null;
   if (!key) throw notFound(`API key ${id}`);
   return key;
 }

@@ -2,7 +2,8 @@ import type { EntityManager } from 'typeorm';
 import type { Principal } from '../auth/principal';
 import type { AppContext } from '../context';
 import { AuditEvent } from '../db/entities/audit-event';
-import { paginateNewestFirst } from '../lib/pagination';
+import { User } from '../db/entities/user';
+import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 
 export type AuditAction =
   | 'sign-in'
@@ -36,6 +37,12 @@ export const actorOf = (p: Principal | undefined, email?: string | null): AuditA
   email: email ?? null,
 });
 
+/** The audit actor behind a request: its person (with their e-mail address) or its API key. */
+export async function auditActorOf(ctx: AppContext, principal: Principal | undefined): Promise<AuditActor> {
+  const email = principal?.userId ? (await ctx.db.getRepository(User).findOneBy({ id: principal.userId }))?.email : null;
+  return actorOf(principal, email);
+}
+
 export async function recordAudit(
   manager: EntityManager,
   event: { tenantId: string | null; action: AuditAction; actor?: AuditActor; target?: string | null; ip?: string | null; details?: Record<string, unknown> },
@@ -54,11 +61,11 @@ export async function recordAudit(
 }
 
 /** `tenantId` null lists every tenant's events (operators). */
-export function listAuditEvents(ctx: AppContext, opts: { tenantId: string | null; action?: string; cursor?: string; limit?: number }) {
+export function listAuditEvents(ctx: AppContext, opts: PageQuery & { tenantId: string | null; action?: string }) {
   const qb = ctx.db.getRepository(AuditEvent).createQueryBuilder('e');
   if (opts.tenantId) qb.andWhere('e.tenant_id = :tenantId', { tenantId: opts.tenantId });
   if (opts.action) qb.andWhere('e.action = :action', { action: opts.action });
-  return paginateNewestFirst(qb, 'audit_events', opts);
+  return pageNewestFirst(qb, opts);
 }
 
 export const auditEventView = (e: AuditEvent) => ({

@@ -1,6 +1,6 @@
 import { exampleSites } from '@gridwright/shared/examples';
 import type { AppContext } from '../context';
-import { submitRun } from './runs';
+import { submitRun } from '../runs/submission';
 
 /**
  * Submits every shared example site as a run of `tenantId`; the worker solves them like any run.

@@ -1,11 +1,10 @@
 // The local demo: an operator, one tenant with an owner, a developer and a viewer, and an API key.
 // Only into an empty database and never in production. Later seed steps (demo runs, say) are
 // passed in and get the seeded tenant.
-import type { Role } from '../auth/principal';
-import { SCOPES } from '../auth/principal';
 import type { AppContext } from '../context';
 import { Tenant } from '../db/entities/tenant';
 import { User } from '../db/entities/user';
+import { SCOPES, type Role } from '../lib/roles-and-scopes';
 import { createApiKey } from './api-keys';
 import { createMember } from './members';
 import { createTenant } from './tenants';

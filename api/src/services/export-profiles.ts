@@ -1,6 +1,7 @@
 import type { AppContext } from '../context';
 import { ExportProfile } from '../db/entities/export-profile';
 import { HttpProblem, notFound } from '../lib/problem';
+import { isUuid } from '../lib/uuid';
 
 export interface ExportProfileInput {
   name: string;
@@ -47,11 +48,9 @@ export async function createExportProfile(ctx: AppContext, tenantId: string, inp
   }
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 /** By id, or by name (what a SCADA pipeline configures: `?profile=plant-north`). */
 export async function getExportProfile(ctx: AppContext, tenantId: string, idOrName: string): Promise<ExportProfile> {
-  const profile = UUID.test(idOrName)
+  const profile = isUuid(idOrName)
     ? await ctx.db.manager.findOneBy(ExportProfile, { id: idOrName, tenantId })
     : await ctx.db.manager.findOneBy(ExportProfile, { name: idOrName, tenantId });
   if (!profile) throw notFound(`Export profile ${idOrName}`);

@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto';
+import canonicalize from 'canonicalize';
 import type { EntityManager } from 'typeorm';
 import { HttpProblem } from '../lib/problem';
 
@@ -10,20 +11,9 @@ import { HttpProblem } from '../lib/problem';
  */
 export const IDEMPOTENCY_KEY_PATTERN = /^[\x21-\x7e]{1,255}$/;
 
-function canonical(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
-  if (value && typeof value === 'object') {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonical(v)}`).join(',')}}`;
-  }
-  return JSON.stringify(value);
-}
-
-/** The same JSON value gives the same fingerprint whatever the key order or whitespace. */
+/** RFC 8785 (JSON Canonicalization Scheme): the same JSON value gives the same fingerprint whatever the key order or whitespace. */
 export function bodyFingerprint(body: unknown): string {
-  return createHash('sha256').update(canonical(body)).digest('hex');
+  return createHash('sha256').update(canonicalize(body) ?? '').digest('hex');
 }
 
 export function parseIdempotencyKey(header: string | undefined): string | null {

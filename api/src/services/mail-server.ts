@@ -1,35 +1,45 @@
 // The loopback SMTP server `npm start` and the tests run when SMTP_URL is unset: every message it
 // accepts lands in the outbox table, where operators read it.
 import type { AddressInfo } from 'node:net';
+import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
 import type { DataSource } from 'typeorm';
 import { OutboxMessage } from '../db/entities/outbox-message';
 import type { Logger } from '../lib/logger';
-import { decodeEncodedWords, parseMimeMessage } from '../lib/parse-mime-message';
+import { isUuid } from '../lib/uuid';
 
 export const KIND_HEADER = 'x-gridwright-kind';
 export const TENANT_HEADER = 'x-gridwright-tenant';
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
 
 export interface LocalSmtpServer {
   port: number;
   close(): Promise<void>;
 }
 
+/** What the outbox keeps of a message besides its envelope: the decoded subject and bodies, and Gridwright's own headers. */
+export async function readOutboxMessage(raw: string) {
+  const parsed = await simpleParser(raw, { skipHtmlToText: true, skipTextToHtml: true, skipTextLinks: true, skipImageLinks: true });
+  const header = (name: string) => {
+    const value = parsed.headers.get(name);
+    return typeof value === 'string' ? value : undefined;
+  };
+  const tenant = header(TENANT_HEADER) ?? '';
+  return {
+    tenantId: isUuid(tenant) ? tenant : null,
+    kind: header(KIND_HEADER) ?? 'other',
+    subject: parsed.subject ?? '',
+    textBody: parsed.text || null,
+    htmlBody: parsed.html || null,
+    messageId: parsed.messageId ?? null,
+  };
+}
+
 export async function storeReceivedMessage(db: DataSource, envelope: { from: string; to: string[] }, raw: string): Promise<void> {
-  const parsed = parseMimeMessage(raw);
-  const tenant = parsed.headers.get(TENANT_HEADER) ?? '';
   await db.getRepository(OutboxMessage).insert({
     receivedAt: new Date(),
-    tenantId: UUID.test(tenant) ? tenant : null,
-    kind: parsed.headers.get(KIND_HEADER) ?? 'other',
     mailFrom: envelope.from,
     rcptTo: envelope.to,
-    subject: decodeEncodedWords(parsed.headers.get('subject') ?? ''),
-    textBody: parsed.text,
-    htmlBody: parsed.html,
-    messageId: parsed.headers.get('message-id') ?? null,
+    ...(await readOutboxMessage(raw)),
     raw,
   });
 }

@@ -1,18 +1,17 @@
 import { IsNull, MoreThan, type EntityManager } from 'typeorm';
-import { TENANT_ROLES, type TenantRole } from '../auth/principal';
 import type { AppContext } from '../context';
 import { Invitation } from '../db/entities/invitation';
 import { Tenant } from '../db/entities/tenant';
 import { User } from '../db/entities/user';
-import { paginateNewestFirst } from '../lib/pagination';
+import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import { TENANT_ROLES, type TenantRole } from '../lib/roles-and-scopes';
 import { randomToken, sha256Hex } from '../lib/secret-tokens';
+import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
 import { composeMail, sendMail } from './mail';
 import { assertPasswordAcceptable, hashPassword } from './passwords';
 import { revokeUserSessions } from './sessions';
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 export const userView = (u: User) => ({
   id: u.id,
@@ -41,9 +40,9 @@ async function findUserByEmail(m: EntityManager, email: string) {
   return m.getRepository(User).createQueryBuilder('u').where('lower(u.email) = lower(:email)', { email }).getOne();
 }
 
-export function listMembers(ctx: AppContext, tenantId: string, opts: { cursor?: string; limit?: number }) {
+export function listMembers(ctx: AppContext, tenantId: string, opts: PageQuery) {
   const qb = ctx.db.getRepository(User).createQueryBuilder('u').where('u.tenant_id = :tenantId', { tenantId });
-  return paginateNewestFirst(qb, 'users', opts);
+  return pageNewestFirst(qb, opts);
 }
 
 export function listPendingInvitations(ctx: AppContext, tenantId: string) {
@@ -54,7 +53,7 @@ export function listPendingInvitations(ctx: AppContext, tenantId: string) {
 }
 
 export async function getMember(m: EntityManager, tenantId: string, id: string): Promise<User> {
-  const user = UUID.test(id) ? await m.findOneBy(User, { id, tenantId }) : null;
+  const user = isUuid(id) ? await m.findOneBy(User, { id, tenantId }) : null;
   if (!user) throw notFound(`Member ${id}`);
   return user;
 }
@@ -153,6 +152,18 @@ export async function inviteMember(
   });
   await sendMail(ctx, { to: [invitation.email], subject: `Invitation to ${tenant.name} on Gridwright`, ...mail, tenantId: tenant.id, kind: 'invitation' });
   return { invitation, link };
+}
+
+/** Withdraws an invitation not yet accepted; 404 for one of another tenant, accepted or already withdrawn. */
+export async function revokeInvitation(ctx: AppContext, tenantId: string, id: string): Promise<void> {
+  const result = await ctx.db
+    .getRepository(Invitation)
+    .createQueryBuilder()
+    .update()
+    .set({ revokedAt: () => 'now()' })
+    .where('id = :id AND tenant_id = :tenantId AND accepted_at IS NULL AND revoked_at IS NULL', { id, tenantId })
+    .execute();
+  if (!result.affected) throw notFound(`Invitation ${id}`);
 }
 
 const invalidToken = (what: string) =>

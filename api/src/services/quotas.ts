@@ -36,6 +36,55 @@ export async function periodTotals(manager: EntityManager, tenantId: string, per
 
 const secondsUntil = (d: Date) => String(Math.max(1, Math.ceil((d.getTime() - Date.now()) / 1000)));
 
+/** The plan's caps on one run's size; a spec above one is refused with 422 naming its field. */
+const RUN_SIZE_CAPS = {
+  steps: { limit: 'maxSteps', slug: 'plan-max-steps', title: 'Horizon longer than the plan allows', pointer: '/horizon/steps' },
+  units: { limit: 'maxUnits', slug: 'plan-max-units', title: 'More units than the plan allows', pointer: '/units' },
+} as const;
+
+/** The monthly quotas: the plan limit each is held to, its name in messages and how an amount is written. */
+const MONTHLY_QUOTAS = {
+  runs: { limit: 'monthlyRuns', label: 'runs', slug: 'quota-monthly-runs', title: 'Monthly run quota used up', amount: (n: number) => String(n) },
+  solverSeconds: {
+    limit: 'monthlySolverSeconds',
+    label: 'solver-seconds',
+    slug: 'quota-monthly-solver-seconds',
+    title: 'Monthly solver-seconds quota used up',
+    amount: (n: number) => n.toFixed(1),
+  },
+} as const;
+
+function assertRunSizeAllowed(limits: TenantLimits, size: { steps: number; units: number }) {
+  for (const measure of ['steps', 'units'] as const) {
+    const cap = RUN_SIZE_CAPS[measure];
+    const limit = limits[cap.limit];
+    const requested = size[measure];
+    if (requested <= limit) continue;
+    throw new HttpProblem({
+      status: 422,
+      slug: cap.slug,
+      title: cap.title,
+      detail: `The spec has ${requested} ${measure}; the plan allows at most ${limit} per run.`,
+      errors: [{ pointer: cap.pointer, message: `at most ${limit} ${measure} on this plan` }],
+      extensions: { limit, requested },
+    });
+  }
+}
+
+function assertQuotaLeft(metric: keyof PeriodTotals, limits: TenantLimits, used: PeriodTotals, period: BillingPeriod) {
+  const quota = MONTHLY_QUOTAS[metric];
+  const limit = limits[quota.limit];
+  if (used[metric] < limit) return;
+  throw new HttpProblem({
+    status: 429,
+    slug: quota.slug,
+    title: quota.title,
+    detail: `${quota.amount(used[metric])} of ${limit} ${quota.label} used in ${period.key}; the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
+    extensions: { limit, used: used[metric], period: period.key, renewsAt: period.end.toISOString() },
+    headers: { 'Retry-After': secondsUntil(period.end) },
+  });
+}
+
 /**
  * Call inside the transaction that inserts the run. Takes a per-tenant transaction lock so that two
  * submissions racing for the last run of the quota cannot both pass.
@@ -47,39 +96,11 @@ export async function assertRunAllowed(
   size: { steps: number; units: number },
 ): Promise<void> {
   const limits = await getTenantLimits(ctx, tenantId, manager);
-  if (size.steps > limits.maxSteps) {
-    throw new HttpProblem({
-      status: 422,
-      slug: 'plan-max-steps',
-      title: 'Horizon longer than the plan allows',
-      detail: `The spec has ${size.steps} steps; the plan allows at most ${limits.maxSteps} per run.`,
-      errors: [{ pointer: '/horizon/steps', message: `at most ${limits.maxSteps} on this plan` }],
-      extensions: { limit: limits.maxSteps, requested: size.steps },
-    });
-  }
-  if (size.units > limits.maxUnits) {
-    throw new HttpProblem({
-      status: 422,
-      slug: 'plan-max-units',
-      title: 'More units than the plan allows',
-      detail: `The spec has ${size.units} units; the plan allows at most ${limits.maxUnits} per run.`,
-      errors: [{ pointer: '/units', message: `at most ${limits.maxUnits} units on this plan` }],
-      extensions: { limit: limits.maxUnits, requested: size.units },
-    });
-  }
+  assertRunSizeAllowed(limits, size);
   await manager.query('SELECT pg_advisory_xact_lock(hashtextextended($1, 0))', [`quota:${tenantId}`]);
   const period = billingPeriod();
   const used = await periodTotals(manager, tenantId, period);
-  if (used.runs >= limits.monthlyRuns) {
-    throw new HttpProblem({
-      status: 429,
-      slug: 'quota-monthly-runs',
-      title: 'Monthly run quota used up',
-      detail: `${used.runs} of ${limits.monthlyRuns} runs used in ${period.key}; the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
-      extensions: { limit: limits.monthlyRuns, used: used.runs, period: period.key, renewsAt: period.end.toISOString() },
-      headers: { 'Retry-After': secondsUntil(period.end) },
-    });
-  }
+  assertQuotaLeft('runs', limits, used, period);
   // Under the same lock, so simultaneous submissions cannot both take the last slot.
   const [active] = await manager.query(
     "SELECT count(*)::int AS n FROM runs WHERE tenant_id = $1 AND status IN ('queued', 'running')",
@@ -95,23 +116,10 @@ export async function assertRunAllowed(
       headers: { 'Retry-After': '5' },
     });
   }
-  if (used.solverSeconds >= limits.monthlySolverSeconds) {
-    throw new HttpProblem({
-      status: 429,
-      slug: 'quota-monthly-solver-seconds',
-      title: 'Monthly solver-seconds quota used up',
-      detail: `${used.solverSeconds.toFixed(1)} of ${limits.monthlySolverSeconds} solver-seconds used in ${period.key}; the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
-      extensions: { limit: limits.monthlySolverSeconds, used: used.solverSeconds, period: period.key, renewsAt: period.end.toISOString() },
-      headers: { 'Retry-After': secondsUntil(period.end) },
-    });
-  }
+  assertQuotaLeft('solverSeconds', limits, used, period);
 }
 
 const THRESHOLDS = [80, 100] as const;
-const METRICS = {
-  runs: { label: 'runs', limit: 'monthlyRuns' },
-  solverSeconds: { label: 'solver-seconds', limit: 'monthlySolverSeconds' },
-} as const;
 
 /** Records what a finished run used (idempotent per run) and warns the owners at 80 % and 100 %, once per period each. */
 export async function recordRunUsage(
@@ -133,8 +141,9 @@ export async function sendQuotaWarnings(ctx: AppContext, tenantId: string, at: D
   const limits = await getTenantLimits(ctx, tenantId);
   const period = billingPeriod(at);
   const used = await periodTotals(ctx.db.manager, tenantId, period);
-  for (const [metric, meta] of Object.entries(METRICS) as [keyof PeriodTotals, (typeof METRICS)[keyof PeriodTotals]][]) {
-    const limit = limits[meta.limit];
+  for (const metric of ['runs', 'solverSeconds'] as const) {
+    const quota = MONTHLY_QUOTAS[metric];
+    const limit = limits[quota.limit];
     const share = limit > 0 ? (used[metric] / limit) * 100 : 100;
     const crossed = THRESHOLDS.filter((t) => share >= t);
     const threshold = crossed[crossed.length - 1];
@@ -147,13 +156,12 @@ export async function sendQuotaWarnings(ctx: AppContext, tenantId: string, at: D
       [tenantId, period.key, metric, crossed],
     );
     if (!inserted.some((r) => r.threshold === threshold)) continue;
-    const amount = metric === 'solverSeconds' ? used[metric].toFixed(1) : String(used[metric]);
-    const heading = threshold >= 100 ? `${tenant.name} has used its monthly ${meta.label} quota` : `${tenant.name} has used ${threshold} % of its monthly ${meta.label} quota`;
+    const heading = threshold >= 100 ? `${tenant.name} has used its monthly ${quota.label} quota` : `${tenant.name} has used ${threshold} % of its monthly ${quota.label} quota`;
     const mail = composeMail(ctx, {
       tenantName: tenant.name,
       heading,
       paragraphs: [
-        `${amount} of ${limit} ${meta.label} used in ${period.key}.`,
+        `${quota.amount(used[metric])} of ${limit} ${quota.label} used in ${period.key}.`,
         threshold >= 100
           ? `New runs are refused until the quota renews on ${period.end.toISOString().slice(0, 10)} or the plan changes.`
           : `At 100 % new runs are refused until the quota renews on ${period.end.toISOString().slice(0, 10)}.`,

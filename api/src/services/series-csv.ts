@@ -1,5 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { DateTime } from 'luxon';
+import { CSV_DELIMITERS } from '../lib/csv-delimiters';
 import { HttpProblem, type ProblemFieldError } from '../lib/problem';
 
 /**
@@ -45,13 +46,12 @@ export interface CsvRead {
 }
 
 const MAX_REPORTED = 20;
-const CANDIDATE_DELIMITERS = [',', ';', '\t', '|'];
 const TO_KW: Record<PowerUnit, number> = { W: 0.001, kW: 1, MW: 1000 };
 
 export function detectDelimiter(headerLine: string): string {
   let best = ',';
   let bestCount = 0;
-  for (const d of CANDIDATE_DELIMITERS) {
+  for (const d of CSV_DELIMITERS) {
     const count = headerLine.split(d).length - 1;
     if (count > bestCount) {
       best = d;

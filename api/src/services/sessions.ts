@@ -5,6 +5,7 @@ import type { AppContext } from '../context';
 import { Session } from '../db/entities/session';
 import { User } from '../db/entities/user';
 import { randomToken } from '../lib/secret-tokens';
+import { isUuid } from '../lib/uuid';
 
 export const SESSION_COOKIE = 'gw_session';
 export const CSRF_COOKIE = 'gw_csrf';
@@ -43,7 +44,7 @@ export async function resolveSession(
   } catch (err) {
     return { ok: false, reason: err instanceof jwt.TokenExpiredError ? 'The session has expired; sign in again.' : 'The session token is not valid.' };
   }
-  if (typeof claims.sid !== 'string' || !/^[0-9a-f-]{36}$/.test(claims.sid)) return { ok: false, reason: 'The session token is not valid.' };
+  if (typeof claims.sid !== 'string' || !isUuid(claims.sid)) return { ok: false, reason: 'The session token is not valid.' };
   const session = await ctx.db.getRepository(Session).findOneBy({ id: claims.sid });
   if (!session || session.userId !== claims.sub) return { ok: false, reason: 'The session is not known.' };
   if (session.revokedAt) return { ok: false, reason: `The session was ended (${session.revokedReason ?? 'revoked'}); sign in again.` };

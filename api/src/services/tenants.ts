@@ -2,18 +2,18 @@ import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
 import { Plan } from '../db/entities/plan';
 import { Tenant, type LimitOverrides } from '../db/entities/tenant';
-import { paginateNewestFirst } from '../lib/pagination';
+import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
+import { inviteMember } from './members';
 
 export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns'] as const;
 export type LimitName = (typeof LIMIT_NAMES)[number];
 export type TenantLimits = Record<LimitName, number>;
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 export async function findTenant(manager: EntityManager, id: string): Promise<Tenant | null> {
-  return UUID.test(id) ? manager.findOneBy(Tenant, { id }) : null;
+  return isUuid(id) ? manager.findOneBy(Tenant, { id }) : null;
 }
 
 export async function getTenantOr404(manager: EntityManager, id: string): Promise<Tenant> {
@@ -67,6 +67,18 @@ export async function createTenant(
   });
 }
 
+/** A new tenant and, when an owner's address is given, the invitation of its first owner. */
+export async function createTenantWithOwner(
+  ctx: AppContext,
+  input: { slug: string; name?: string; planId?: string; ownerEmail?: string },
+  actor: AuditActor,
+  invitedBy: string | null,
+): Promise<Tenant> {
+  const tenant = await createTenant(ctx, { slug: input.slug, name: input.name, planId: input.planId }, actor);
+  if (input.ownerEmail) await inviteMember(ctx, { tenantId: tenant.id, email: input.ownerEmail, role: 'owner', invitedBy }, actor);
+  return tenant;
+}
+
 export interface TenantChanges {
   name?: string;
   planId?: string;
@@ -110,10 +122,10 @@ export async function setTenantSuspended(ctx: AppContext, id: string, suspend: b
   });
 }
 
-export function listTenants(ctx: AppContext, opts: { cursor?: string; limit?: number; q?: string }) {
+export function listTenants(ctx: AppContext, opts: PageQuery & { q?: string }) {
   const qb = ctx.db.getRepository(Tenant).createQueryBuilder('t');
   if (opts.q) qb.andWhere('(t.slug ILIKE :q OR t.name ILIKE :q)', { q: `%${opts.q.replace(/[\\%_]/g, (c) => '\\' + c)}%` });
-  return paginateNewestFirst(qb, 'tenants', opts);
+  return pageNewestFirst(qb, opts);
 }
 
 export async function tenantView(manager: EntityManager, tenant: Tenant) {

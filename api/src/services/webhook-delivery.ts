@@ -5,7 +5,7 @@ import type { DeliveryAttempt } from '../db/entities/webhook-delivery';
 import { WebhookDelivery } from '../db/entities/webhook-delivery';
 import { WebhookEndpoint } from '../db/entities/webhook-endpoint';
 import { composeMail, sendMail, tenantOwnerEmails } from './mail';
-import { startQueue, WEBHOOK_DEAD_QUEUE, WEBHOOK_QUEUE, type WebhookJobData } from './run-queue';
+import { startQueue, WEBHOOK_DEAD_QUEUE, WEBHOOK_QUEUE, type WebhookJobData } from './job-queue';
 import { guardedPost } from './ssrf-guard';
 
 export class DeliveryFailedError extends Error {}

@@ -5,8 +5,9 @@ import { Run } from '../db/entities/run';
 import { WebhookDelivery } from '../db/entities/webhook-delivery';
 import { WebhookEndpoint, type WebhookEvent } from '../db/entities/webhook-endpoint';
 import { notFound, validationProblem } from '../lib/problem';
-import { enqueueWebhookDelivery } from './run-queue';
-import { runLinks } from './run-view';
+import { isUuid } from '../lib/uuid';
+import { enqueueWebhookDelivery } from './job-queue';
+import { runLinks } from '../runs/view';
 import { assertSafeWebhookUrl, UnsafeUrlError } from './ssrf-guard';
 
 export const WEBHOOK_EVENTS: readonly WebhookEvent[] = ['run.succeeded', 'run.failed', 'run.cancelled'];
@@ -118,10 +119,8 @@ export async function createEndpoint(ctx: AppContext, tenantId: string, input: E
   return { endpoint, secret };
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 export async function getEndpoint(ctx: AppContext, tenantId: string, id: string): Promise<WebhookEndpoint> {
-  const endpoint = UUID.test(id) ? await ctx.db.manager.findOneBy(WebhookEndpoint, { id, tenantId }) : null;
+  const endpoint = isUuid(id) ? await ctx.db.manager.findOneBy(WebhookEndpoint, { id, tenantId }) : null;
   if (!endpoint) throw notFound(`Webhook endpoint ${id}`);
   return endpoint;
 }

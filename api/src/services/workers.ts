@@ -1,6 +1,7 @@
 import type { AppContext } from '../context';
+import { startRunWorker } from '../runs/runner';
+import type { SolveFn } from '../runs/supervisor';
 import { purgeExpiredIdempotencyKeys } from './idempotency';
-import { startRunWorker, type SolveFn } from './run-worker';
 import { startWebhookWorker } from './webhook-delivery';
 
 const PURGE_EVERY_MS = 60 * 60 * 1000;

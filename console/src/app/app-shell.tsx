@@ -4,7 +4,7 @@ import { Button } from '@/components/button';
 import { Wordmark } from '@/components/logo-mark';
 import { ProblemAlert } from '@/components/problem-alert';
 import { Loading } from '@/components/states';
-import { api, unwrap } from '@/lib/api';
+import { api, unwrap } from '@/lib/api-client';
 import { hasPermission, sessionQueryKey, useSession, type Session } from '@/lib/session';
 import { groupLabels, navItems, type NavItem } from './nav-items';
 

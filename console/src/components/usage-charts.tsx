@@ -1,7 +1,7 @@
 import { useMemo } from 'react';
 import { Bar, CartesianGrid, ComposedChart, Legend, Line, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { chartColors } from '@/lib/chart-colors';
-import type { Schemas } from '@/lib/api';
+import type { Schemas } from '@/lib/api-client';
 import { formatNumber, formatPercent } from '@/lib/format';
 import { usagePoints } from '@/lib/usage-series';
 

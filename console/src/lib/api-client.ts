@@ -1,16 +1,9 @@
-import { ApiProblem } from './api-problem';
+import createClient, { type Middleware } from 'openapi-fetch';
+import { ApiProblem, type ProblemBody } from './api-problem';
+import type { components, paths } from './api-types';
 
-type QueryValue = string | number | boolean | undefined | null;
+export type Schemas = components['schemas'];
 
-export interface RequestOptions {
-  method?: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
-  query?: Record<string, QueryValue>;
-  body?: unknown;
-  headers?: Record<string, string>;
-  signal?: AbortSignal;
-}
-
-const unsafe = new Set(['POST', 'PATCH', 'PUT', 'DELETE']);
 let sessionCsrf: string | null = null;
 
 /** The session route hands back a CSRF token; the cookie is the fallback after a reload. */
@@ -18,7 +11,7 @@ export function rememberCsrfToken(token: string | null | undefined) {
   sessionCsrf = token ?? null;
 }
 
-export function csrfToken(): string | null {
+function csrfToken(): string | null {
   const fromCookie = document.cookie
     .split(';')
     .map((c) => c.trim())
@@ -26,49 +19,63 @@ export function csrfToken(): string | null {
   return fromCookie ? decodeURIComponent(fromCookie.slice('gw_csrf='.length)) : sessionCsrf;
 }
 
-export function buildUrl(path: string, query?: Record<string, QueryValue>): string {
-  const params = new URLSearchParams();
-  for (const [k, v] of Object.entries(query ?? {})) {
-    if (v !== undefined && v !== null && v !== '') params.set(k, String(v));
-  }
-  const qs = params.toString();
-  return qs ? `${path}?${qs}` : path;
-}
-
-async function send(path: string, opts: RequestOptions): Promise<Response> {
-  const method = opts.method ?? 'GET';
-  const headers: Record<string, string> = { Accept: 'application/json, application/problem+json', ...opts.headers };
-  let body: BodyInit | undefined;
-  if (opts.body instanceof FormData) body = opts.body;
-  else if (opts.body !== undefined) {
-    headers['Content-Type'] = 'application/json';
-    body = JSON.stringify(opts.body);
-  }
-  if (unsafe.has(method)) {
-    const token = csrfToken();
-    if (token) headers['X-CSRF-Token'] = token;
-  }
-  const res = await fetch(buildUrl(path, opts.query), { method, headers, body, credentials: 'same-origin', signal: opts.signal });
-  if (!res.ok) {
-    const text = await res.text();
-    let parsed: Record<string, unknown>;
-    try {
-      parsed = JSON.parse(text);
-    } catch {
-      parsed = { detail: text.slice(0, 300) || res.statusText };
+const sendCsrfToken: Middleware = {
+  onRequest({ request }) {
+    if (request.method !== 'GET' && request.method !== 'HEAD') {
+      const token = csrfToken();
+      if (token) request.headers.set('X-CSRF-Token', token);
     }
-    throw new ApiProblem(parsed, res.status);
+    return request;
+  },
+};
+
+/**
+ * The console's one HTTP client, typed from openapi/openapi.yaml (`npm run gen:api-types`). Uploads and
+ * downloads go through it too (`multipartBody`, `saveDownload`), so every request carries the CSRF token.
+ */
+export const api = createClient<paths>({ baseUrl: window.location.origin, credentials: 'same-origin' });
+api.use(sendCsrfToken);
+
+type ClientAnswer<T> = Promise<{ data?: T; error?: unknown; response: Response }>;
+
+/** Returns the body of a 2xx answer; anything else becomes an ApiProblem carrying the problem+json detail. */
+export async function unwrap<T>(call: ClientAnswer<T>): Promise<T> {
+  const { data, error, response } = await call;
+  if (!response.ok) {
+    // A proxy or a crashed server may answer with text or nothing instead of problem+json.
+    const body: ProblemBody =
+      error && typeof error === 'object' ? (error as ProblemBody) : { detail: (typeof error === 'string' ? error.slice(0, 300) : '') || response.statusText };
+    throw new ApiProblem(body, response.status);
   }
-  return res;
+  return data as T;
 }
 
-/** One call outside the typed client (multipart uploads, file downloads); any non-2xx becomes an ApiProblem. */
-export async function apiRequest<T>(path: string, opts: RequestOptions = {}): Promise<T> {
-  const res = await send(path, opts);
-  if (res.status === 204) return undefined as T;
-  const type = res.headers.get('content-type') ?? '';
-  if (!type.includes('json')) return (await res.text()) as T;
-  return (await res.json()) as T;
+/**
+ * A `bodySerializer` for multipart routes. openapi-typescript types a binary part as a string; the browser
+ * sends the File itself, and sets the multipart boundary because the body is FormData.
+ */
+export function multipartBody(fields: Record<string, string | Blob | undefined>): FormData {
+  const form = new FormData();
+  for (const [name, value] of Object.entries(fields)) {
+    if (value !== undefined) form.set(name, value);
+  }
+  return form;
+}
+
+/** Saves a file answer (`parseAs: 'blob'`) under the server's filename, or `fallbackName` when it sends none. */
+export async function saveDownload(call: ClientAnswer<Blob>, fallbackName: string) {
+  const blob = await unwrap(call);
+  const { response } = await call;
+  const disposition = response.headers.get('content-disposition') ?? '';
+  const name = /filename="?([^";]+)"?/.exec(disposition)?.[1] ?? fallbackName;
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement('a');
+  a.href = url;
+  a.download = name;
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
 }
 
 /** The cursor of the `Link: <…>; rel="next"` header, for cursor-paged lists. */
@@ -79,20 +86,4 @@ export function nextCursorFromLink(link: string | null): string | null {
     if (m) return new URL(m[1], 'http://x').searchParams.get('cursor');
   }
   return null;
-}
-
-/** Downloads a response body as a file, keeping the server's filename when it sends one. */
-export async function apiDownload(path: string, query: Record<string, QueryValue>, fallbackName: string, accept: string) {
-  const res = await send(path, { query, headers: { Accept: accept } });
-  const blob = await res.blob();
-  const disposition = res.headers.get('content-disposition') ?? '';
-  const name = /filename="?([^";]+)"?/.exec(disposition)?.[1] ?? fallbackName;
-  const url = URL.createObjectURL(blob);
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  document.body.appendChild(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
 }

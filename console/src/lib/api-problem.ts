@@ -3,6 +3,14 @@ export interface FieldError {
   message: string;
 }
 
+export interface ProblemBody {
+  status?: number;
+  title?: string;
+  detail?: string;
+  type?: string;
+  errors?: FieldError[];
+}
+
 /** An RFC 9457 problem returned by the API, kept whole so screens can show its detail and field errors. */
 export class ApiProblem extends Error {
   readonly status: number;
@@ -11,7 +19,7 @@ export class ApiProblem extends Error {
   readonly type: string;
   readonly errors: FieldError[];
 
-  constructor(body: { status?: number; title?: string; detail?: string; type?: string; errors?: FieldError[] }, status: number) {
+  constructor(body: ProblemBody, status: number) {
     super(body.detail ?? body.title ?? `Request failed (${status})`);
     this.status = body.status ?? status;
     this.title = body.title ?? 'Request failed';

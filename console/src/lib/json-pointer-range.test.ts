@@ -1,14 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { parsePointer, pointerToRange } from './json-pointer-range';
+import { pointerToRange } from './json-pointer-range';
 
-// Expected pointer decoding follows RFC 6901 §3–4 (the "~1"/"~0" escapes and their order).
-describe('parsePointer', () => {
-  it('splits and unescapes in RFC 6901 order', () => {
-    expect(parsePointer('')).toEqual([]);
-    expect(parsePointer('/units/0/minStableKw')).toEqual(['units', '0', 'minStableKw']);
-    expect(parsePointer('/a~1b/c~0d/~01')).toEqual(['a/b', 'c~d', '~1']);
-  });
-});
+// Pointer parsing itself is tested with the shared module (tests/unit/json-pointer.test.ts).
 
 describe('pointerToRange', () => {
   const text = JSON.stringify(
@@ -43,6 +36,18 @@ describe('pointerToRange', () => {
   it('maps the root pointer to the first character', () => {
     expect(pointerToRange(text, '')).toEqual({ from: 0, to: text.length, exact: true });
     expect(pointerToRange(text, '/nothing')).toEqual({ from: 0, to: 1, exact: false });
+  });
+
+  it('finds an escaped key (RFC 6901 §4: "~1" is "/", "~0" is "~")', () => {
+    const escaped = JSON.stringify({ 'a/b': { 'c~d': 1 } }, null, 2);
+    const r = pointerToRange(escaped, '/a~1b/c~0d');
+    expect(r && escaped.slice(r.from, r.to)).toBe('"c~d": 1');
+    expect(r?.exact).toBe(true);
+  });
+
+  it('lands text that is not a pointer on the root, as a missing field', () => {
+    expect(pointerToRange(text, 'horizon/steps')).toEqual({ from: 0, to: 1, exact: false });
+    expect(pointerToRange(text, '/a~2')).toEqual({ from: 0, to: 1, exact: false });
   });
 
   it('still maps while the text has a syntax error further down', () => {

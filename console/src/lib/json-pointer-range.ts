@@ -1,17 +1,11 @@
 import { findNodeAtLocation, parseTree, type Node } from 'jsonc-parser';
+import { isPointer, parsePointer } from '@gridwright/shared/json-pointer';
 
 export interface TextRange {
   from: number;
   to: number;
   /** False when the pointer names something absent (e.g. a missing required field): the range is then its nearest parent. */
   exact: boolean;
-}
-
-/** RFC 6901: split on "/", then "~1" → "/" and "~0" → "~" (in that order). */
-export function parsePointer(pointer: string): string[] {
-  if (pointer === '' || pointer === '/') return [];
-  const body = pointer.startsWith('/') ? pointer.slice(1) : pointer;
-  return body.split('/').map((s) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
 }
 
 function segmentsFor(node: Node, raw: string[]): (string | number)[] {
@@ -33,6 +27,9 @@ function segmentsFor(node: Node, raw: string[]): (string | number)[] {
 export function pointerToRange(text: string, pointer: string): TextRange | null {
   const root = parseTree(text);
   if (!root) return null;
+  const rootStart = { from: root.offset, to: Math.min(root.offset + 1, root.offset + root.length), exact: false };
+  // Text that is not a pointer names nothing in the document, so it lands where a missing field would.
+  if (!isPointer(pointer)) return rootStart;
   const path = segmentsFor(root, parsePointer(pointer));
   for (let depth = path.length; depth >= 0; depth--) {
     const node = depth === 0 ? root : findNodeAtLocation(root, path.slice(0, depth));
@@ -44,7 +41,7 @@ export function pointerToRange(text: string, pointer: string): TextRange | null 
       const key = target.children[0];
       return { from: key.offset, to: key.offset + key.length, exact };
     }
-    if (!exact && depth === 0) return { from: root.offset, to: Math.min(root.offset + 1, root.offset + root.length), exact };
+    if (!exact && depth === 0) return rootStart;
     return { from: target.offset, to: target.offset + target.length, exact };
   }
   return null;

@@ -1,6 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from './api';
-import { rememberCsrfToken } from './api-client';
+import { api, rememberCsrfToken, unwrap, type Schemas } from './api-client';
 import { isProblem } from './api-problem';
 
 export type Session = Schemas['SessionInfo'];

@@ -68,7 +68,7 @@ describe('the demo seed', () => {
   });
 
   it('is refused in production', async () => {
-    const production = { ...t.ctx, config: { ...t.ctx.config, production: true, nodeEnv: 'production' } };
+    const production = { ...t.ctx, config: { ...t.ctx.config, production: true, nodeEnv: 'production' as const } };
     await expect(seedDemo(production)).rejects.toThrow(/NODE_ENV=production/);
   });
 });

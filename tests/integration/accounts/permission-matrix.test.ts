@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openapiPath } from '../../../api/src/app';
 import { v1Operations } from '../../../api/src/auth/permission-docs';
 import { isAction, roleAllows, scopeAllows, type Action } from '../../../api/src/auth/permissions';
-import { SCOPES, type Role, type Scope } from '../../../api/src/auth/principal';
+import { SCOPES, type Role, type Scope } from '../../../api/src/lib/roles-and-scopes';
 import { createApiKey } from '../../../api/src/services/api-keys';
 import { updateTenant } from '../../../api/src/services/tenants';
 import { createTenantWithKey, createUserSession } from '../../support/tenants';

@@ -37,6 +37,11 @@ describe('quotas and usage', () => {
     expect(steps.message).toContain('672');
     const units = await refusal(t.ctx.db.transaction((m) => assertRunAllowed(t.ctx, m, tenantId, { steps: 24, units: 6 })));
     expect(units.type).toBe('/problems/plan-max-units');
+    expect(units.status).toBe(422);
+    expect(units.message).toBe('The spec has 6 units; the plan allows at most 5 per run.');
+    expect(units.errors).toEqual([{ pointer: '/units', message: 'at most 5 units on this plan' }]);
+    expect(units.extensions).toEqual({ limit: 5, requested: 6 });
+    expect(steps.errors).toEqual([{ pointer: '/horizon/steps', message: 'at most 672 steps on this plan' }]);
 
     // Through the runs route as well: the cap comes back as problem+json.
     const spec = { horizon: { start: '2027-03-01T00:00:00+01:00', stepMinutes: 15, steps: 700 }, supply: { availableKw: Array(700).fill(1) } };

@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { failDeadRun } from '../../../api/src/services/run-worker';
+import { endDeadLetteredRun } from '../../../api/src/runs/runner';
 import { createTenantWithKey } from '../../support/tenants';
 import { startTestApp, type TestApp } from '../../support/test-app';
 import { bearer, FAST_QUEUE_ENV, smallSpec } from './run-helpers';
@@ -136,10 +136,10 @@ describe('submitting and reading runs', () => {
 
   it('ends a dead-lettered run (its workers kept dying) failed instead of leaving it hanging', async () => {
     const res = await request(t.app).post('/v1/runs').set(bearer(key)).send(smallSpec({ name: 'dead' })).expect(202);
-    await failDeadRun(t.ctx, res.body.id);
+    await endDeadLetteredRun(t.ctx, res.body.id);
     const run = await request(t.app).get(`/v1/runs/${res.body.id}`).set(bearer(key)).expect(200);
     expect(run.body).toMatchObject({ status: 'failed', error: { code: 'worker-lost' } });
-    await failDeadRun(t.ctx, res.body.id);
+    await endDeadLetteredRun(t.ctx, res.body.id);
     expect((await request(t.app).get(`/v1/runs/${res.body.id}`).set(bearer(key))).body.finishedAt).toBe(run.body.finishedAt);
   });
 });

@@ -1,4 +1,4 @@
-import { stopQueue } from '../../../api/src/services/run-queue';
+import { stopQueue } from '../../../api/src/services/job-queue';
 import { startWebhookWorker } from '../../../api/src/services/webhook-delivery';
 import { createTenantWithKey } from '../../support/tenants';
 import { startTestApp, type TestApp } from '../../support/test-app';

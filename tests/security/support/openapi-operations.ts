@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { parse as parseYaml } from 'yaml';
+import { parsePointer } from '@gridwright/shared/json-pointer';
 import { openapiPath } from '../../../api/src/app';
 
 export const HTTP_METHODS = ['get', 'put', 'post', 'delete', 'patch', 'head', 'options'] as const;
@@ -50,7 +51,7 @@ export function listOperations(doc: Record<string, any> = loadOpenApi()): Operat
 
 export function resolveRef(doc: Record<string, any>, node: any): any {
   if (!node || typeof node !== 'object' || typeof node.$ref !== 'string') return node;
-  const parts = node.$ref.replace(/^#\//, '').split('/').map((s: string) => s.replace(/~1/g, '/').replace(/~0/g, '~'));
+  const parts = parsePointer(node.$ref.replace(/^#/, ''));
   let target: any = doc;
   for (const p of parts) target = target?.[p];
   return resolveRef(doc, target);

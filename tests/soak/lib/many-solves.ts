@@ -2,7 +2,7 @@
 // them. Prints RSS every `every` solves and a final JSON line.
 import { resolveDefaults, validateSiteSpec } from '../../../shared/src/site-spec';
 import { solveSite } from '../../../api/src/engine/solve-site';
-import { SolverPool } from '../../../api/src/engine/solver-pool';
+import { HighsSolverPool } from '../../../api/src/solver/highs-solver-pool';
 import { smallSiteSpec } from './specs';
 
 const n = Number(process.argv[2] ?? 5000);
@@ -10,7 +10,7 @@ const every = Math.max(1, Math.floor(n / 10));
 const checked = validateSiteSpec(smallSiteSpec('rss soak'));
 if (!checked.ok) throw new Error('the soak spec does not validate');
 const spec = resolveDefaults(checked.spec);
-const solver = new SolverPool();
+const solver = new HighsSolverPool();
 const rss: number[] = [];
 let failures = 0;
 const started = Date.now();

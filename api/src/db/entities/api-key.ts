@@ -1,5 +1,5 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
-import type { Scope } from '../../auth/principal';
+import type { Scope } from '../../lib/roles-and-scopes';
 
 @Entity('api_keys')
 export class ApiKey {

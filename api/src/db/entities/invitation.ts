@@ -1,5 +1,5 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
-import type { TenantRole } from '../../auth/principal';
+import type { TenantRole } from '../../lib/roles-and-scopes';
 
 @Entity('invitations')
 export class Invitation {

@@ -1,7 +1,5 @@
+import type { RunStatus, SolveOutcome } from '@gridwright/shared/run-result';
 import { Column, Entity, PrimaryColumn } from 'typeorm';
-
-export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed' | 'cancelled';
-export type RunOutcome = 'optimal' | 'feasible' | 'infeasible' | 'no-solution';
 
 /** One submitted site spec and its way through the queue; the row is the truth the API reads. */
 @Entity('runs')
@@ -9,8 +7,9 @@ export class Run {
   @PrimaryColumn('uuid') id!: string;
   @Column('uuid', { name: 'tenant_id' }) tenantId!: string;
   @Column('timestamptz', { name: 'created_at' }) createdAt!: Date;
+  /** One of RUN_STATUSES; the database's CHECK constraint is made from the same list. */
   @Column('text') status!: RunStatus;
-  @Column('text', { nullable: true }) outcome!: RunOutcome | null;
+  @Column('text', { nullable: true }) outcome!: SolveOutcome | null;
   @Column('text', { nullable: true }) name!: string | null;
   @Column('jsonb') spec!: Record<string, unknown>;
   @Column('text', { name: 'series_id', nullable: true }) seriesId!: string | null;

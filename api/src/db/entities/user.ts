@@ -1,5 +1,5 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
-import type { Role } from '../../auth/principal';
+import type { Role } from '../../lib/roles-and-scopes';
 
 @Entity('users')
 export class User {

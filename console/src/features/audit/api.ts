@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from '@/lib/api';
+import { api, unwrap, type Schemas } from '@/lib/api-client';
 
 export type AuditEvent = Schemas['AuditEvent'];
 

@@ -1,6 +1,5 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from '@/lib/api';
-import { rememberCsrfToken } from '@/lib/api-client';
+import { api, rememberCsrfToken, unwrap, type Schemas } from '@/lib/api-client';
 import { sessionQueryKey } from '@/lib/session';
 
 export type SignInInput = Schemas['SignInRequest'];

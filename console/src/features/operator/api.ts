@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from '@/lib/api';
+import { api, unwrap, type Schemas } from '@/lib/api-client';
 
 export type Tenant = Schemas['TenantInfo'];
 export type Limits = Schemas['Limits'];
@@ -18,10 +18,6 @@ export const useTenant = (id: string) => useQuery(getTenantQueryOptions(id));
 export const getTenantUsage = (id: string) => unwrap(api.GET('/v1/admin/tenants/{id}/usage', { params: { path: { id } } }));
 export const getTenantUsageQueryOptions = (id: string) => queryOptions({ queryKey: ['admin', 'tenants', 'usage', id], queryFn: () => getTenantUsage(id) });
 export const useTenantUsage = (id: string) => useQuery(getTenantUsageQueryOptions(id));
-
-export const listPlans = () => unwrap(api.GET('/v1/plans'));
-export const getPlansQueryOptions = () => queryOptions({ queryKey: ['plans'], queryFn: listPlans, staleTime: 300_000 });
-export const usePlans = () => useQuery(getPlansQueryOptions());
 
 function useTenantsMutation<I, O>(fn: (input: I) => Promise<O>) {
   const queryClient = useQueryClient();

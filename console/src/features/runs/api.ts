@@ -1,34 +1,14 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { RunResult, RunStatus, SolveOutcome } from '@gridwright/shared/run-result';
+import type { RunResult, RunStatus } from '@gridwright/shared/run-result';
 import type { SiteSpec } from '@gridwright/shared/site-spec';
-import { api, unwrap, type Schemas } from '@/lib/api';
-import { apiDownload, nextCursorFromLink } from '@/lib/api-client';
-
-/** A run as the API lists it; once it has a result, the fields of SPEC.md §3 sit at the top level. */
-export interface Run extends Partial<Pick<RunResult, 'objective' | 'kpis' | 'schedule' | 'model' | 'warnings'>> {
-  id: string;
-  name: string | null;
-  status: RunStatus;
-  outcome?: SolveOutcome | null;
-  steps?: number | null;
-  units?: number | null;
-  solverSeconds?: number | null;
-  progress?: { windowsDone: number; windowsTotal: number | null; percent?: number } | null;
-  createdAt: string;
-  startedAt?: string | null;
-  finishedAt?: string | null;
-  cancelRequestedAt?: string | null;
-  error?: { code?: string; message: string } | string | null;
-}
+import { api, nextCursorFromLink, saveDownload, unwrap } from '@/lib/api-client';
+import { isActive, runsQueryKey, type Run } from '@/lib/queries/runs';
 
 export interface RunFilters {
   status?: RunStatus | '';
   cursor?: string | null;
   limit?: number;
 }
-
-export const activeStatuses: RunStatus[] = ['queued', 'running'];
-export const isActive = (status: RunStatus) => activeStatuses.includes(status);
 
 export function objectiveValue(run: Run): number | null {
   return run.objective?.value ?? null;
@@ -60,7 +40,7 @@ export async function listRuns(filters: RunFilters): Promise<{ items: Run[]; nex
 
 export function getRunsQueryOptions(filters: RunFilters) {
   return queryOptions({
-    queryKey: ['runs', 'list', filters],
+    queryKey: [...runsQueryKey, 'list', filters],
     queryFn: () => listRuns(filters),
     placeholderData: keepPreviousData,
     // Live while anything on the page is still in flight; quiet otherwise.
@@ -72,29 +52,12 @@ export function useRuns(filters: RunFilters) {
   return useQuery(getRunsQueryOptions(filters));
 }
 
-// The document types `model` and `kpis` loosely; the shapes are the shared result types of SPEC.md §3.
-export async function getRun(id: string): Promise<Run> {
-  return (await unwrap(api.GET('/v1/runs/{runId}', { params: { path: { runId: id } } }))) as Run;
-}
-
-export function getRunQueryOptions(id: string) {
-  return queryOptions({
-    queryKey: ['runs', 'detail', id],
-    queryFn: () => getRun(id),
-    refetchInterval: (q) => (q.state.data && isActive(q.state.data.status) ? 1000 : false),
-  });
-}
-
-export function useRun(id: string) {
-  return useQuery(getRunQueryOptions(id));
-}
-
 export async function getRunSpec(id: string): Promise<SiteSpec> {
   return (await unwrap(api.GET('/v1/runs/{runId}/spec', { params: { path: { runId: id } } }))) as SiteSpec;
 }
 
 export function getRunSpecQueryOptions(id: string) {
-  return queryOptions({ queryKey: ['runs', 'spec', id], queryFn: () => getRunSpec(id), staleTime: Infinity });
+  return queryOptions({ queryKey: [...runsQueryKey, 'spec', id], queryFn: () => getRunSpec(id), staleTime: Infinity });
 }
 
 export function useRunSpec(id: string) {
@@ -109,39 +72,27 @@ export function useCancelRun(id: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: () => cancelRun(id),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: ['runs'] }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: runsQueryKey }),
   });
 }
 
-export function listExportProfiles() {
-  return unwrap(api.GET('/v1/export-profiles'));
-}
-
-export function getExportProfilesQueryOptions() {
-  return queryOptions({ queryKey: ['export-profiles'], queryFn: listExportProfiles });
-}
-
-export function useExportProfiles(enabled: boolean) {
-  return useQuery({ ...getExportProfilesQueryOptions(), enabled });
-}
-
 export function downloadSchedule(id: string, format: 'json' | 'csv', profileId?: string) {
-  return apiDownload(
-    `/v1/runs/${encodeURIComponent(id)}/schedule`,
-    { format, profile: profileId },
+  return saveDownload(
+    api.GET('/v1/runs/{runId}/schedule', {
+      params: { path: { runId: id }, query: { format, profile: profileId } },
+      headers: { Accept: format === 'csv' ? 'text/csv' : 'application/json' },
+      parseAs: 'blob',
+    }),
     `run-${id}-schedule.${format}`,
-    format === 'csv' ? 'text/csv' : 'application/json',
   );
 }
-
-export type Delivery = Schemas['WebhookDelivery'];
 
 export function listRunDeliveries(id: string) {
   return unwrap(api.GET('/v1/runs/{runId}/webhook-deliveries', { params: { path: { runId: id } } }));
 }
 
 export function getRunDeliveriesQueryOptions(id: string) {
-  return queryOptions({ queryKey: ['runs', 'deliveries', id], queryFn: () => listRunDeliveries(id) });
+  return queryOptions({ queryKey: [...runsQueryKey, 'deliveries', id], queryFn: () => listRunDeliveries(id) });
 }
 
 export function useRunDeliveries(id: string, enabled: boolean) {

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from '@/lib/api';
+import { api, unwrap, type Schemas } from '@/lib/api-client';
 
 export type Member = Schemas['Member'];
 export type TenantRole = Schemas['InvitationRequest']['role'];

@@ -1,9 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from '@/lib/api';
+import { api, unwrap, type Schemas } from '@/lib/api-client';
 
 export type Endpoint = Schemas['WebhookEndpoint'];
 export type WebhookEvent = Schemas['WebhookEvent'];
-export type Delivery = Schemas['WebhookDelivery'];
 export const allEvents: WebhookEvent[] = ['run.succeeded', 'run.failed', 'run.cancelled'];
 
 export const listEndpoints = () => unwrap(api.GET('/v1/webhook-endpoints'));

@@ -1,7 +1,7 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, unwrap, type Schemas } from '@/lib/api';
-import { apiRequest } from '@/lib/api-client';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { api, multipartBody, unwrap, type Schemas } from '@/lib/api-client';
 import { isProblem } from '@/lib/api-problem';
+import { runsQueryKey } from '@/lib/queries/runs';
 import type { PointerIssue } from './lib/spec-diagnostics';
 
 export type SpecWarning = Schemas['ResultWarning'];
@@ -32,54 +32,30 @@ export function useCheckSpec() {
   return useMutation({ mutationFn: checkSpec });
 }
 
-export type SubmittedRun = Schemas['Run'];
-
 export function submitRun(spec: unknown) {
   return unwrap(api.POST('/v1/runs', { body: spec as Schemas['SiteSpec'], params: { header: { 'Idempotency-Key': crypto.randomUUID() } } }));
 }
 
 export function useSubmitRun() {
   const queryClient = useQueryClient();
-  return useMutation({ mutationFn: submitRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: ['runs'] }) });
-}
-
-/** The submitted run, polled until it settles, so the workbench can follow it. */
-export function getFollowedRunQueryOptions(id: string) {
-  return queryOptions({
-    queryKey: ['runs', 'detail', id],
-    queryFn: () => unwrap(api.GET('/v1/runs/{runId}', { params: { path: { runId: id } } })),
-    refetchInterval: (q) => (q.state.data && ['queued', 'running'].includes(q.state.data.status) ? 1000 : false),
-  });
-}
-
-export function useFollowedRun(id: string | null) {
-  return useQuery({ ...getFollowedRunQueryOptions(id ?? ''), enabled: !!id });
+  return useMutation({ mutationFn: submitRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: runsQueryKey }) });
 }
 
 export type UploadedSeries = Schemas['SeriesSummary'];
 
 /** Multipart upload; the options travel as query parameters, as the route documents. */
 export async function uploadSeries(input: { file: File; name: string }): Promise<UploadedSeries[]> {
-  const form = new FormData();
-  form.set('file', input.file);
-  const body = await apiRequest<{ items: UploadedSeries[] }>('/v1/series', { method: 'POST', body: form, query: { name: input.name || undefined } });
+  const body = await unwrap(
+    api.POST('/v1/series', {
+      params: { query: { name: input.name || undefined } },
+      // The generated type calls the binary part a string; multipartBody sends the File as it is.
+      body: { file: input.file as unknown as string },
+      bodySerializer: multipartBody,
+    }),
+  );
   return body.items;
 }
 
 export function useUploadSeries() {
   return useMutation({ mutationFn: uploadSeries });
-}
-
-export type KeyChoice = Schemas['ApiKey'];
-
-export function listKeyChoices() {
-  return unwrap(api.GET('/v1/api-keys', { params: { query: { limit: 200 } } }));
-}
-
-export function getKeyChoicesQueryOptions() {
-  return queryOptions({ queryKey: ['api-keys', 'choices'], queryFn: listKeyChoices });
-}
-
-export function useKeyChoices(enabled: boolean) {
-  return useQuery({ ...getKeyChoicesQueryOptions(), enabled });
 }

@@ -4,8 +4,9 @@ import { PageHeader, Panel } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
 import { EmptyState, Loading } from '@/components/states';
 import { formatDateTime } from '@/lib/format';
+import { useExportProfiles } from '@/lib/queries/export-profiles';
 import { usePermission } from '@/lib/session';
-import { useDeleteExportProfile, useExportProfiles } from '../api';
+import { useDeleteExportProfile } from '../api';
 import { CreateProfileForm } from '../components/create-profile-form';
 
 export function ExportProfilesRoute() {

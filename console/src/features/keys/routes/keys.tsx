@@ -6,8 +6,9 @@ import { PageHeader, Panel } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
 import { EmptyState, Loading } from '@/components/states';
 import { formatDateTime } from '@/lib/format';
+import { useApiKeys, type ApiKey } from '@/lib/queries/api-keys';
 import { usePermission } from '@/lib/session';
-import { useApiKeys, useRevokeApiKey, type ApiKey } from '../api';
+import { useRevokeApiKey } from '../api';
 import { CreateKeyForm } from '../components/create-key-form';
 
 function keyState(k: ApiKey): string {

@@ -3,7 +3,8 @@ import { Link } from 'react-router-dom';
 import { Button } from '@/components/button';
 import { SelectField, TextField } from '@/components/field';
 import { ProblemAlert } from '@/components/problem-alert';
-import { useCreateTenant, usePlans } from '../api';
+import { usePlans } from '@/lib/queries/plans';
+import { useCreateTenant } from '../api';
 
 export function CreateTenantForm() {
   const [slug, setSlug] = useState('');

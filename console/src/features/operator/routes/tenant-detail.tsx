@@ -7,7 +7,8 @@ import { ProblemAlert } from '@/components/problem-alert';
 import { Loading } from '@/components/states';
 import { LimitsList, UsageCharts } from '@/components/usage-charts';
 import { formatDateTime } from '@/lib/format';
-import { usePlans, useResumeTenant, useSuspendTenant, useTenant, useTenantUsage, useUpdateTenant } from '../api';
+import { usePlans } from '@/lib/queries/plans';
+import { useResumeTenant, useSuspendTenant, useTenant, useTenantUsage, useUpdateTenant } from '../api';
 import { LimitOverridesForm } from '../components/limit-overrides-form';
 
 export function TenantDetailRoute() {

@@ -3,8 +3,9 @@ import { useState } from 'react';
 import { Button } from '@/components/button';
 import { SelectField } from '@/components/field';
 import { ProblemAlert } from '@/components/problem-alert';
+import { useExportProfiles } from '@/lib/queries/export-profiles';
 import { usePermission } from '@/lib/session';
-import { downloadSchedule, useExportProfiles } from '../api';
+import { downloadSchedule } from '../api';
 
 export function DownloadsPanel({ runId }: { runId: string }) {
   const canReadProfiles = usePermission('exportProfiles.read');

@@ -2,8 +2,9 @@ import { Button } from '@/components/button';
 import { ProblemAlert } from '@/components/problem-alert';
 import { StatusPill } from '@/components/status-pill';
 import { formatDateTime } from '@/lib/format';
+import { isActive, type Run } from '@/lib/queries/runs';
 import { usePermission } from '@/lib/session';
-import { isActive, useCancelRun, type Run } from '../api';
+import { useCancelRun } from '../api';
 
 export function RunStatusBar({ run }: { run: Run }) {
   const canCancel = usePermission('runs.cancel');

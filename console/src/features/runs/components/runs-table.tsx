@@ -3,7 +3,8 @@ import { Link } from 'react-router-dom';
 import { Table, Td, Th } from '@/components/data-table';
 import { StatusPill } from '@/components/status-pill';
 import { formatDateTime, formatNumber, formatSeconds } from '@/lib/format';
-import { objectiveValue, type Run } from '../api';
+import type { Run } from '@/lib/queries/runs';
+import { objectiveValue } from '../api';
 
 type SortKey = 'status' | 'name' | 'steps' | 'objective' | 'outcome' | 'solverSeconds' | 'createdAt';
 

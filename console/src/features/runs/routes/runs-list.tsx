@@ -6,11 +6,9 @@ import { PageHeader } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
 import { EmptyState, Loading } from '@/components/states';
 import { usePermission } from '@/lib/session';
-import type { RunStatus } from '@gridwright/shared/run-result';
+import { RUN_STATUSES, type RunStatus } from '@gridwright/shared/run-result';
 import { useRuns } from '../api';
 import { RunsTable } from '../components/runs-table';
-
-const statuses: RunStatus[] = ['queued', 'running', 'succeeded', 'failed', 'cancelled'];
 
 export function RunsListRoute() {
   const [status, setStatus] = useState<RunStatus | ''>('');
@@ -43,7 +41,7 @@ export function RunsListRoute() {
           }}
         >
           <option value="">Any status</option>
-          {statuses.map((s) => (
+          {RUN_STATUSES.map((s) => (
             <option key={s} value={s}>
               {s}
             </option>

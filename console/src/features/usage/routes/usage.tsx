@@ -3,7 +3,8 @@ import { ProblemAlert } from '@/components/problem-alert';
 import { Loading } from '@/components/states';
 import { LimitsList, UsageCharts } from '@/components/usage-charts';
 import { formatDateTime } from '@/lib/format';
-import { usePlans, useTenant, useUsage } from '../api';
+import { usePlans } from '@/lib/queries/plans';
+import { useTenant, useUsage } from '../api';
 
 export function UsageRoute() {
   const usage = useUsage();

@@ -1,14 +1,14 @@
 import { useMemo, useState } from 'react';
 import { CopyButton } from '@/components/copy-button';
 import { SelectField } from '@/components/field';
+import { useApiKeys } from '@/lib/queries/api-keys';
 import { usePermission } from '@/lib/session';
-import { useKeyChoices } from '../api';
 import { curlSnippet, fetchSnippet, keyVariableName } from '../lib/code-snippets';
 
 /** The same Solve request the button sends, as code an integrator can paste into a script. */
 export function CodePanel({ spec }: { spec: unknown }) {
   const canListKeys = usePermission('keys.read');
-  const keys = useKeyChoices(canListKeys);
+  const keys = useApiKeys(false, canListKeys);
   const live = keys.data?.items.filter((k) => !k.revokedAt) ?? [];
   const [keyId, setKeyId] = useState('');
   const [lang, setLang] = useState<'curl' | 'ts'>('curl');

@@ -1,10 +1,10 @@
 import { Link } from 'react-router-dom';
 import { ProblemAlert } from '@/components/problem-alert';
 import { StatusPill } from '@/components/status-pill';
-import { useFollowedRun } from '../api';
+import { useRun } from '@/lib/queries/runs';
 
 export function FollowedRun({ runId }: { runId: string }) {
-  const run = useFollowedRun(runId);
+  const run = useRun(runId);
   if (run.error) return <ProblemAlert error={run.error} />;
   const r = run.data;
   const total = r?.progress?.windowsTotal;

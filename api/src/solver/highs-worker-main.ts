@@ -1,12 +1,16 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import highsImport from 'highs';
-import type { SolveReply, SolveRequest, SolveStatus, WorkerMessage } from './solver-protocol';
+import type { SolveStatus } from '../engine/solver-port';
+import type { HighsResult, HighsSolveMessage, HighsWorkerMessage } from './highs-protocol';
 
 const loadHighs = ((highsImport as any).default ?? highsImport) as typeof highsImport;
 // The pool compiles HiGHS once and hands every worker the same module.
 const highs = await loadHighs({ wasmModule: (workerData as { wasmModule?: any } | null)?.wasmModule });
 const port = parentPort!;
-const post = (message: WorkerMessage, transfer: ArrayBuffer[] = []) => port.postMessage(message, transfer);
+const post = (message: HighsWorkerMessage, transfer: ArrayBuffer[] = []) => port.postMessage(message, transfer);
+
+/** HiGHS's `primal_solution_status` / `dual_solution_status` for a feasible point. */
+const FEASIBLE_POINT = 2;
 
 // HiGHS model status codes (highs.constants.modelStatus).
 const statusOf = (code: number): SolveStatus => {
@@ -27,7 +31,7 @@ function infoNumber(model: { info: { get(name: string): number | bigint } }, nam
   }
 }
 
-function solve(req: SolveRequest): SolveReply {
+function solve(req: HighsSolveMessage): HighsResult {
   const m = req.model;
   const model = highs.createModel({
     numCols: m.numCols,
@@ -72,12 +76,13 @@ function solve(req: SolveRequest): SolveReply {
     });
     const status = statusOf(run.modelStatus);
     const empty = run.modelStatus === highs.constants.modelStatus.empty;
-    const hasPrimal = empty || infoNumber(model, 'primal_solution_status') === 2;
-    const solution = hasPrimal && (status === 'optimal' || status === 'time-limit') && m.numCols > 0 ? model.getSolution() : null;
-    const colValue = solution ? solution.colValue : hasPrimal && m.numCols === 0 && (status === 'optimal' || status === 'time-limit') ? new Float64Array(0) : null;
+    const hasPrimal = empty || infoNumber(model, 'primal_solution_status') === FEASIBLE_POINT;
     const isMip = m.integrality.some((v) => v !== 0);
-    const rowDual = req.wantDuals && !isMip && status === 'optimal' && solution ? solution.rowDual : null;
-    let iis: SolveReply['iis'] = null;
+    const solution = hasPrimal && (status === 'optimal' || status === 'time-limit') && m.numCols > 0 ? model.getSolution() : null;
+    const colValue = hasPrimal && (status === 'optimal' || status === 'time-limit') ? (solution?.colValue ?? new Float64Array(0)) : null;
+    const hasDuals = req.wantDuals && !isMip && status === 'optimal' && (empty || infoNumber(model, 'dual_solution_status') === FEASIBLE_POINT);
+    const rowDual = hasDuals ? (solution?.rowDual ?? new Float64Array(m.numRows)) : null;
+    let iis: HighsResult['iis'] = null;
     if (status === 'infeasible' && req.wantIis) {
       try {
         // The light default strategy finds nothing once presolve has proved infeasibility; an
@@ -90,29 +95,25 @@ function solve(req: SolveRequest): SolveReply {
       }
     }
     return {
-      type: 'result',
-      id: req.id,
       status,
-      modelStatus: run.modelStatus,
+      solverStatus: `HiGHS model status ${run.modelStatus}`,
       colValue,
       objective: colValue ? model.getObjectiveValue() : null,
       dualBound: isMip ? infoNumber(model, 'mip_dual_bound') : colValue ? model.getObjectiveValue() : null,
       mipGap: isMip ? infoNumber(model, 'mip_gap') : colValue ? 0 : null,
-      nodes: isMip ? (infoNumber(model, 'mip_node_count') ?? 0) : 0,
-      runSeconds: model.getRunTime(),
-      iis,
       rowDual,
+      iis,
     };
   } finally {
     model.dispose();
   }
 }
 
-port.on('message', (req: SolveRequest) => {
+port.on('message', (req: HighsSolveMessage) => {
   try {
-    const reply = solve(req);
-    const transfer = [reply.colValue, reply.rowDual].filter((a) => a !== null).map((a) => a!.buffer as ArrayBuffer);
-    post(reply, transfer);
+    const result = solve(req);
+    const transfer = [result.colValue, result.rowDual].flatMap((a) => (a ? [a.buffer as ArrayBuffer] : []));
+    post({ type: 'result', id: req.id, ...result }, transfer);
   } catch (err) {
     post({ type: 'error', id: req.id, message: err instanceof Error ? err.message : String(err) });
   }

@@ -4,15 +4,8 @@ import type { Config } from '../config';
 import type { AppContext } from '../context';
 import type { Logger } from '../lib/logger';
 
-export const RUN_QUEUE = 'run-solve';
-/** Runs whose worker crashed more often than the retry limit end up here and are marked failed. */
-export const RUN_DEAD_QUEUE = 'run-solve-dead';
 export const WEBHOOK_QUEUE = 'webhook-delivery';
 export const WEBHOOK_DEAD_QUEUE = 'webhook-delivery-dead';
-
-export interface RunJobData {
-  runId: string;
-}
 
 export interface WebhookJobData {
   deliveryId: string;
@@ -38,7 +31,7 @@ const RACE_CODES = new Set(['40P01', '23505', '40001']);
  * Worker processes that start together all create the same queues; pg-boss's createQueue can then
  * deadlock or hit its unique key. The queue exists once any of them wins, so retry.
  */
-async function createQueueRacing(boss: PgBoss, name: string, options: { deadLetter?: string; retryLimit?: number } = {}) {
+export async function createQueueRacing(boss: PgBoss, name: string, options: { deadLetter?: string; retryLimit?: number } = {}) {
   for (let attempt = 1; ; attempt++) {
     try {
       await boss.createQueue(name, { name, ...options });
@@ -50,14 +43,15 @@ async function createQueueRacing(boss: PgBoss, name: string, options: { deadLett
   }
 }
 
-/** Starts pg-boss once per process and makes sure every queue exists (createQueue before send). */
+/**
+ * Starts pg-boss once per process and makes sure the webhook queues exist (createQueue before send);
+ * the run queues are made by `runs/queue.ts` on first use.
+ */
 export function startQueue(ctx: Pick<AppContext, 'boss' | 'config'>): Promise<PgBoss> {
   let started = ready.get(ctx.boss);
   if (!started) {
     started = (async () => {
       await ctx.boss.start();
-      await createQueueRacing(ctx.boss, RUN_DEAD_QUEUE);
-      await createQueueRacing(ctx.boss, RUN_QUEUE, { deadLetter: RUN_DEAD_QUEUE, retryLimit: ctx.config.runRetryLimit });
       await createQueueRacing(ctx.boss, WEBHOOK_DEAD_QUEUE);
       await createQueueRacing(ctx.boss, WEBHOOK_QUEUE, { deadLetter: WEBHOOK_DEAD_QUEUE });
       return ctx.boss;
@@ -74,26 +68,9 @@ export async function stopQueue(ctx: Pick<AppContext, 'boss'>, opts: { graceful?
   await ctx.boss.stop({ graceful: opts.graceful ?? true, wait: true, timeout: 5_000 });
 }
 
-/** pg-boss runs its INSERT on our transaction, so a run and its job are committed together or not at all. */
-function onTransaction(manager: EntityManager) {
+/** pg-boss runs its INSERT on our transaction, so a row and its job are committed together or not at all. */
+export function onTransaction(manager: EntityManager) {
   return { executeSql: async (text: string, values: unknown[]) => ({ rows: await manager.query(text, values) }) };
-}
-
-export async function enqueueRun(
-  ctx: Pick<AppContext, 'boss' | 'config'>,
-  manager: EntityManager,
-  run: { id: string; timeLimitSeconds: number },
-): Promise<void> {
-  const boss = await startQueue(ctx);
-  const id = await boss.send(RUN_QUEUE, { runId: run.id } satisfies RunJobData, {
-    db: onTransaction(manager),
-    retryLimit: ctx.config.runRetryLimit,
-    retryDelay: 0,
-    deadLetter: RUN_DEAD_QUEUE,
-    // Longer than the solver may legitimately take, so only a dead worker's job expires and is retried.
-    expireInSeconds: Math.ceil(run.timeLimitSeconds + ctx.config.runExpiryGraceSeconds),
-  });
-  if (!id) throw new Error(`the queue refused run ${run.id}`);
 }
 
 export async function enqueueWebhookDelivery(

@@ -1,16 +1,9 @@
-import { readFile } from 'node:fs/promises';
-import { createRequire } from 'node:module';
-import os from 'node:os';
 import { Worker } from 'node:worker_threads';
-import type { ModelArrays } from './model-arrays';
-import type { SolveReply, SolveRequest, WorkerMessage } from './solver-protocol';
-
-export class SolveAbortedError extends Error {
-  constructor() {
-    super('The solve was cancelled');
-    this.name = 'SolveAbortedError';
-  }
-}
+import { MIN_SOLVE_SECONDS, solverOverrunSeconds } from '../engine/deadline';
+import type { ModelArrays } from '../engine/model-arrays';
+import { SolveAbortedError, type SolveReply, type SolveRequest, type SolverIdentity, type SolverPort } from '../engine/solver-port';
+import { compileHighs, type CompiledHighs } from './compile-highs';
+import type { HighsSolveMessage, HighsWorkerMessage } from './highs-protocol';
 
 export class SolverCrashedError extends Error {
   constructor(detail: string) {
@@ -19,28 +12,7 @@ export class SolverCrashedError extends Error {
   }
 }
 
-export interface SolveJob {
-  model: ModelArrays;
-  /** Counted from when a worker takes the job, not from when it was queued. */
-  timeLimitSeconds: number;
-  /** A `performance.now()` instant the job's time limit never reaches past, however long it queued. */
-  deadlineMs?: number;
-  mipGap: number;
-  mipAbsGap?: number;
-  wantIis?: boolean;
-  wantDuals?: boolean;
-  signal?: AbortSignal;
-  onLog?: (line: string) => void;
-}
-
-export type SolveJobResult = Omit<SolveReply, 'type' | 'id'> & {
-  /** The worker overran its time limit and was terminated; the result holds the last incumbent, if any. */
-  killedAtDeadline: boolean;
-  /** From the moment a worker took the job to its answer: solver time, without time spent queued. */
-  workerSeconds: number;
-};
-
-export interface SolverPoolOptions {
+export interface HighsSolverPoolOptions {
   /** Worker threads solving in parallel. */
   size?: number;
   /** A worker is replaced after this many solves: long-lived WebAssembly instances have failed before. */
@@ -60,31 +32,11 @@ interface Waiting {
 
 const WORKER_URL = new URL('./highs-worker.mjs', import.meta.url);
 
-/** A WebAssembly.Module, opaque here: the api's TypeScript lib declares no WebAssembly types. */
-type CompiledModule = object;
-const { WebAssembly: wasm } = globalThis as unknown as { WebAssembly: { compile(bytes: Uint8Array): Promise<CompiledModule> } };
-
-let compiledHighs: Promise<CompiledModule> | null = null;
-
 /**
- * HiGHS compiled once per process and shared with every worker: a fresh worker then starts
- * without recompiling, and reuses the code V8 has already optimised for earlier workers.
+ * HiGHS in worker threads, as the engine's solver port: a time limit, a cancel or a
+ * WebAssembly crash ends a worker, never the process. Solves queue when every worker is busy.
  */
-function compileHighs(): Promise<CompiledModule> {
-  compiledHighs ??= readFile(createRequire(import.meta.url).resolve('highs/runtime')).then((bytes) => wasm.compile(bytes));
-  return compiledHighs;
-}
-
-/** HiGHS's time_limit is soft; the worker is terminated this long after it (seconds). */
-function graceSeconds(limit: number): number {
-  return Math.max(2, 0.25 * limit);
-}
-
-/**
- * HiGHS in worker threads: a time limit, a cancel or a WebAssembly crash ends a worker,
- * never the process. Jobs queue when every worker is busy.
- */
-export class SolverPool {
+export class HighsSolverPool implements SolverPort {
   private readonly size: number;
   private readonly solvesPerWorker: number;
   private readonly slots: Slot[] = [];
@@ -93,32 +45,29 @@ export class SolverPool {
   private solverVersion: string | null = null;
   private versionWaiters: ((v: string) => void)[] = [];
   private closed = false;
-  private wasmModule: CompiledModule | null = null;
+  private compiled: Promise<CompiledHighs> | null = null;
+  private wasmModule: CompiledHighs | null = null;
 
-  constructor(options: SolverPoolOptions = {}) {
+  constructor(options: HighsSolverPoolOptions = {}) {
     this.size = Math.max(1, Math.floor(options.size ?? 1));
     this.solvesPerWorker = Math.max(1, options.solvesPerWorker ?? 1000);
   }
 
-  /** How many solves run at once. */
-  get threads(): number {
+  get concurrency(): number {
     return this.size;
   }
 
-  /** The HiGHS version string of the loaded WebAssembly build. */
-  async version(): Promise<string> {
-    if (this.solverVersion) return this.solverVersion;
-    await this.ready();
-    if (!this.slots.length && !this.closed) this.spawn();
-    return new Promise((resolve) => this.versionWaiters.push(resolve));
+  /** HiGHS and the version string of the loaded WebAssembly build. */
+  async describe(): Promise<SolverIdentity> {
+    return { name: 'HiGHS', version: await this.version() };
   }
 
-  async solve(job: SolveJob): Promise<SolveJobResult> {
+  async solve(model: ModelArrays, request: SolveRequest): Promise<SolveReply> {
     if (this.closed) throw new Error('The solver pool is closed');
-    if (job.signal?.aborted) throw new SolveAbortedError();
+    if (request.signal?.aborted) throw new SolveAbortedError();
     await this.ready();
     return new Promise((resolve, reject) => {
-      const run = (slot: Slot) => this.runOn(slot, job).then(resolve, reject);
+      const run = (slot: Slot) => this.runOn(slot, model, request).then(resolve, reject);
       const free = this.acquire();
       if (free) run(free);
       else this.waiting.push({ run });
@@ -140,8 +89,16 @@ export class SolverPool {
     await Promise.all(slots.map((s) => s.worker.terminate()));
   }
 
+  private async version(): Promise<string> {
+    if (this.solverVersion) return this.solverVersion;
+    await this.ready();
+    if (!this.slots.length && !this.closed) this.spawn();
+    return new Promise((resolve) => this.versionWaiters.push(resolve));
+  }
+
   private async ready(): Promise<void> {
-    this.wasmModule ??= await compileHighs();
+    this.compiled ??= compileHighs();
+    this.wasmModule ??= await this.compiled;
   }
 
   private acquire(): Slot | null {
@@ -154,7 +111,7 @@ export class SolverPool {
     const worker = new Worker(WORKER_URL, { workerData: { wasmModule: this.wasmModule } });
     const slot: Slot = { worker, solves: 0, busy: false, dead: false };
     worker.unref();
-    worker.on('message', (msg: WorkerMessage) => {
+    worker.on('message', (msg: HighsWorkerMessage) => {
       if (msg.type !== 'ready') return;
       this.solverVersion = msg.version;
       for (const w of this.versionWaiters.splice(0)) w(msg.version);
@@ -189,7 +146,7 @@ export class SolverPool {
     }
   }
 
-  private runOn(slot: Slot, job: SolveJob): Promise<SolveJobResult> {
+  private runOn(slot: Slot, model: ModelArrays, request: SolveRequest): Promise<SolveReply> {
     slot.busy = true;
     slot.solves++;
     slot.worker.ref();
@@ -197,9 +154,10 @@ export class SolverPool {
     const { worker } = slot;
     const dispatched = performance.now();
     const elapsed = () => (performance.now() - dispatched) / 1000;
-    const timeLimitSeconds =
-      job.deadlineMs === undefined ? job.timeLimitSeconds : Math.max(0.05, Math.min(job.timeLimitSeconds, (job.deadlineMs - performance.now()) / 1000));
-    return new Promise<SolveJobResult>((resolve, reject) => {
+    // Counted from here, when a thread takes the model: time spent queued has already been spent.
+    const timeLimitSeconds = Math.max(MIN_SOLVE_SECONDS, request.deadline.remainingSeconds());
+    const killAfterSeconds = timeLimitSeconds + solverOverrunSeconds(timeLimitSeconds);
+    return new Promise<SolveReply>((resolve, reject) => {
       let incumbent: { colValue: Float64Array; objective: number } | null = null;
       let settled = false;
       const finish = (retire: boolean, outcome: () => void) => {
@@ -209,74 +167,58 @@ export class SolverPool {
         worker.off('message', onMessage);
         worker.off('error', onError);
         worker.off('exit', onExit);
-        job.signal?.removeEventListener('abort', onAbort);
+        request.signal?.removeEventListener('abort', onAbort);
         this.release(slot, retire);
         outcome();
       };
-      const onMessage = (msg: WorkerMessage) => {
+      const onMessage = (msg: HighsWorkerMessage) => {
         if (msg.type === 'ready' || msg.id !== id) return;
-        if (msg.type === 'log') job.onLog?.(msg.line);
+        if (msg.type === 'log') request.onLog?.(msg.line);
         else if (msg.type === 'incumbent') incumbent = { colValue: msg.colValue, objective: msg.objective };
         else if (msg.type === 'error') finish(true, () => reject(new SolverCrashedError(msg.message)));
-        else finish(false, () => resolve({ ...stripEnvelope(msg), killedAtDeadline: false, workerSeconds: elapsed() }));
+        else {
+          const { type: _type, id: _id, ...result } = msg;
+          finish(false, () => resolve({ ...result, killedAtDeadline: false, workerSeconds: elapsed() }));
+        }
       };
       const onError = (err: Error) => finish(true, () => reject(new SolverCrashedError(err.message)));
       const onExit = (code: number) => finish(true, () => reject(new SolverCrashedError(`exit code ${code}`)));
       const onAbort = () => finish(true, () => reject(new SolveAbortedError()));
+      // HiGHS's time_limit is soft: past it by the allowed overrun, the thread is terminated.
       const timer = setTimeout(
         () =>
           finish(true, () =>
             resolve({
               status: 'time-limit',
-              modelStatus: -1,
+              solverStatus: `HiGHS terminated ${killAfterSeconds.toFixed(1)} s after it took the model`,
               colValue: incumbent?.colValue ?? null,
               objective: incumbent?.objective ?? null,
               dualBound: null,
               mipGap: null,
-              nodes: 0,
-              runSeconds: timeLimitSeconds + graceSeconds(timeLimitSeconds),
-              iis: null,
               rowDual: null,
+              iis: null,
               killedAtDeadline: true,
               workerSeconds: elapsed(),
             }),
           ),
-        (timeLimitSeconds + graceSeconds(timeLimitSeconds)) * 1000,
+        killAfterSeconds * 1000,
       );
       worker.on('message', onMessage);
       worker.on('error', onError);
       worker.on('exit', onExit);
-      job.signal?.addEventListener('abort', onAbort, { once: true });
-      const request: SolveRequest = {
+      request.signal?.addEventListener('abort', onAbort, { once: true });
+      const message: HighsSolveMessage = {
         type: 'solve',
         id,
-        model: job.model,
+        model,
         timeLimitSeconds,
-        mipGap: job.mipGap,
-        ...(job.mipAbsGap !== undefined ? { mipAbsGap: job.mipAbsGap } : {}),
-        wantIis: job.wantIis ?? false,
-        wantDuals: job.wantDuals ?? false,
-        wantLog: job.onLog !== undefined,
+        mipGap: request.mipGap,
+        ...(request.mipAbsGap !== undefined ? { mipAbsGap: request.mipAbsGap } : {}),
+        wantIis: request.wantIis ?? false,
+        wantDuals: request.wantDuals ?? false,
+        wantLog: request.onLog !== undefined,
       };
-      worker.postMessage(request);
+      worker.postMessage(message);
     });
   }
-}
-
-function stripEnvelope(msg: SolveReply): Omit<SolveReply, 'type' | 'id'> {
-  const { type: _type, id: _id, ...rest } = msg;
-  return rest;
-}
-
-let defaultPool: SolverPool | null = null;
-
-/** Solver threads when nobody says: one per core, at most four (each holds its own HiGHS heap). */
-export function defaultSolverThreads(): number {
-  return Math.max(1, Math.min(4, os.availableParallelism()));
-}
-
-/** The process-wide pool used when a caller passes none. */
-export function defaultSolverPool(): SolverPool {
-  defaultPool ??= new SolverPool({ size: defaultSolverThreads() });
-  return defaultPool;
 }

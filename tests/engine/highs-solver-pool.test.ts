@@ -1,0 +1,97 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { Deadline } from '../../api/src/engine/deadline';
+import type { ModelArrays } from '../../api/src/engine/model-arrays';
+import { solveSite } from '../../api/src/engine/solve-site';
+import { SolveAbortedError } from '../../api/src/engine/solver-port';
+import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
+import { gridTiedSolarSite, resolve } from './synthetic-sites';
+
+const pool = new HighsSolverPool({ solvesPerWorker: 2 });
+afterAll(() => pool.close());
+
+const small = () =>
+  resolve({
+    horizon: { start: '2027-01-01T00:00:00Z', stepMinutes: 60, steps: 3 },
+    supply: { availableKw: [1, 2, 3] },
+    units: [{ id: 'u', kind: 'flexible-load', ratingKw: 2, minStableKw: 1, valuePerKwh: 1 }],
+  });
+
+/**
+ * One hour of a site with a 5 kWh load, served by grid import (0.1 per kWh, at most 3 kWh) and
+ * a diesel generator (0.3 per kWh), maximising minus the cost. Columns: import g, diesel d.
+ * Rows: the balance g + d = 5, and the import limit g ≤ 3 written as a row so it has a dual.
+ */
+function dispatchLp(dieselIsBinary = false): ModelArrays {
+  return {
+    numCols: 2,
+    numRows: 2,
+    colCost: Float64Array.from([-0.1, -0.3]),
+    colLower: Float64Array.from([0, 0]),
+    colUpper: Float64Array.from([Infinity, dieselIsBinary ? 1 : Infinity]),
+    integrality: Int32Array.from([0, dieselIsBinary ? 1 : 0]),
+    rowLower: Float64Array.from([5, -Infinity]),
+    rowUpper: Float64Array.from([5, 3]),
+    starts: Int32Array.from([0, 2, 3]),
+    indices: Int32Array.from([0, 1, 0]),
+    values: Float64Array.from([1, 1, 1]),
+  };
+}
+
+describe('HiGHS solver pool', () => {
+  it('terminates the worker on abort, rejects with SolveAbortedError, and keeps serving', async () => {
+    const big = resolve(gridTiedSolarSite({ days: 30, stepMinutes: 60, mode: 'monolithic' }));
+    const controller = new AbortController();
+    const pending = solveSite(big, { solver: pool, signal: controller.signal });
+    setTimeout(() => controller.abort(), 300);
+    await expect(pending).rejects.toBeInstanceOf(SolveAbortedError);
+    // Hand check: 1 + 2 + 2 kWh at value 1.
+    const r = await solveSite(small(), { solver: pool });
+    expect(r.objective.value).toBeCloseTo(5, 9);
+  });
+
+  it('recycles workers after their quota of solves without losing results', async () => {
+    const values: number[] = [];
+    for (let i = 0; i < 5; i++) values.push((await solveSite(small(), { solver: pool })).objective.value!);
+    expect(values).toEqual([5, 5, 5, 5, 5]);
+  });
+
+  it('rejects at once when the signal is already aborted', async () => {
+    const controller = new AbortController();
+    controller.abort();
+    await expect(solveSite(small(), { solver: pool, signal: controller.signal })).rejects.toBeInstanceOf(SolveAbortedError);
+  });
+
+  it('reports the HiGHS version of the WebAssembly build', async () => {
+    expect(pool.concurrency).toBe(1);
+    const r = await solveSite(small(), { solver: pool });
+    expect(r.model.solver.name).toBe('HiGHS');
+    expect(r.model.solver.version).toMatch(/^\d+\.\d+\.\d+/);
+  });
+
+  it("returns an LP's row duals as the marginal value of each row's bound (hand derivation)", async () => {
+    // Import is cheaper, so it runs at its 3 kWh limit and diesel covers the other 2 kWh:
+    // objective −(0.1·3 + 0.3·2) = −0.9. One more kWh of load must come from diesel, so the
+    // balance row's dual is −0.3 (energy at this step is worth 0.3). One more kWh of import
+    // limit replaces a kWh of diesel, 0.3 − 0.1 = +0.2, so the limit row's dual is 0.2.
+    const r = await pool.solve(dispatchLp(), { deadline: Deadline.after(10), mipGap: 0, wantDuals: true });
+    expect(r.status).toBe('optimal');
+    expect(Array.from(r.colValue!)).toEqual([expect.closeTo(3, 9), expect.closeTo(2, 9)]);
+    expect(r.objective).toBeCloseTo(-0.9, 9);
+    expect(Array.from(r.rowDual!)).toEqual([expect.closeTo(-0.3, 9), expect.closeTo(0.2, 9)]);
+  });
+
+  it('returns no duals unless asked, nor for a MIP', async () => {
+    const unasked = await pool.solve(dispatchLp(), { deadline: Deadline.after(10), mipGap: 0 });
+    expect(unasked.status).toBe('optimal');
+    expect(unasked.rowDual).toBeNull();
+    // Diesel as a 0/1 column (1 kWh or nothing) and a 4 kWh load: import 3 + diesel 1, objective −0.6.
+    const mip = await pool.solve({ ...dispatchLp(true), rowLower: Float64Array.from([4, -Infinity]), rowUpper: Float64Array.from([4, 3]) }, {
+      deadline: Deadline.after(10),
+      mipGap: 0,
+      wantDuals: true,
+    });
+    expect(mip.status).toBe('optimal');
+    expect(mip.objective).toBeCloseTo(-0.6, 9);
+    expect(mip.rowDual).toBeNull();
+  });
+});
