@@ -1,14 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import type PgBoss from 'pg-boss';
-import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { RunResult } from '@gridwright/shared/run-result';
 import type { AppContext } from '../context';
 import { solveSite } from '../engine/solve-site';
 import { SolverPool } from '../engine/solver-pool';
 import { recordRunUsage } from './quotas';
 import { RUN_DEAD_QUEUE, RUN_QUEUE, startQueue, type RunJobData } from './run-queue';
-import { lookupSupplySeries } from './series-lookup';
+import { resolveSiteSpecForTenant } from './resolve-site-spec';
 import { enqueueRunEvent } from './webhooks';
 
 export type SolveFn = typeof solveSite;
@@ -52,14 +51,13 @@ export async function solveRunJob(ctx: AppContext, runId: string, workerId: stri
     if (log.length < MAX_LOG_CHARS) log += line.endsWith('\n') ? line : `${line}\n`;
   };
 
-  let resolved: ResolvedSiteSpec;
-  try {
-    resolved = await resolveRunSpec(ctx, claimed);
-  } catch (err) {
-    const message = (err as Error).message;
+  const resolution = await resolveSiteSpecForTenant(ctx.db.manager, claimed.tenantId, claimed.spec);
+  if (!resolution.ok) {
+    const message = `The stored spec no longer validates: ${resolution.errors.map((e) => `${e.pointer} ${e.message}`).join('; ')}`;
     await finishRun(ctx, runId, claimed, { status: 'failed', result: null, error: { code: 'invalid-spec', message } }, log, 0);
     return;
   }
+  const { resolved } = resolution;
 
   const abort = new AbortController();
   let abortReason: 'cancelled' | 'superseded' | 'time-limit' | null = null;
@@ -149,14 +147,6 @@ async function claimRun(ctx: AppContext, runId: string, workerId: string): Promi
     timeLimitSeconds: row.time_limit_seconds,
     cancelRequested: row.cancel_requested_at !== null,
   };
-}
-
-async function resolveRunSpec(ctx: AppContext, claimed: Claimed): Promise<ResolvedSiteSpec> {
-  const checked = validateSiteSpec(claimed.spec);
-  if (!checked.ok) throw new Error(`The stored spec no longer validates: ${checked.errors.map((e) => `${e.pointer} ${e.message}`).join('; ')}`);
-  const supply = await lookupSupplySeries(ctx.db.manager, claimed.tenantId, checked.spec);
-  if (!supply.ok) throw new Error(supply.errors.map((e) => `${e.pointer}: ${e.message}`).join('; '));
-  return resolveDefaults(checked.spec, supply.availableKw);
 }
 
 const EVENT_FOR = { succeeded: 'run.succeeded', failed: 'run.failed', cancelled: 'run.cancelled' } as const;

@@ -1,7 +1,7 @@
 import { Column, Entity, PrimaryColumn } from 'typeorm';
+import type { RunError, RunStatus, SolveOutcome } from '@gridwright/shared/run-result';
 
-export type RunStatus = 'queued' | 'running' | 'succeeded' | 'failed' | 'cancelled';
-export type RunOutcome = 'optimal' | 'feasible' | 'infeasible' | 'no-solution';
+export type { RunStatus };
 
 /** One submitted site spec and its way through the queue; the row is the truth the API reads. */
 @Entity('runs')
@@ -10,7 +10,7 @@ export class Run {
   @Column('uuid', { name: 'tenant_id' }) tenantId!: string;
   @Column('timestamptz', { name: 'created_at' }) createdAt!: Date;
   @Column('text') status!: RunStatus;
-  @Column('text', { nullable: true }) outcome!: RunOutcome | null;
+  @Column('text', { nullable: true }) outcome!: SolveOutcome | null;
   @Column('text', { nullable: true }) name!: string | null;
   @Column('jsonb') spec!: Record<string, unknown>;
   @Column('text', { name: 'series_id', nullable: true }) seriesId!: string | null;
@@ -27,7 +27,7 @@ export class Run {
   @Column('integer') attempts!: number;
   @Column('text', { name: 'worker_id', nullable: true }) workerId!: string | null;
   @Column('jsonb', { nullable: true }) result!: Record<string, unknown> | null;
-  @Column('jsonb', { nullable: true }) error!: { code: string; message: string } | null;
+  @Column('jsonb', { nullable: true }) error!: RunError | null;
   @Column('text', { name: 'solver_log' }) solverLog!: string;
   @Column('double precision', { name: 'solver_seconds', nullable: true }) solverSeconds!: number | null;
 }

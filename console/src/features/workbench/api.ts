@@ -32,8 +32,6 @@ export function useCheckSpec() {
   return useMutation({ mutationFn: checkSpec });
 }
 
-export type SubmittedRun = Schemas['Run'];
-
 export function submitRun(spec: unknown) {
   return unwrap(api.POST('/v1/runs', { body: spec as Schemas['SiteSpec'], params: { header: { 'Idempotency-Key': crypto.randomUUID() } } }));
 }
