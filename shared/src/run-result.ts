@@ -1,129 +1,205 @@
-/** The result of a run (SPEC.md §3): what `GET /v1/runs/{id}` returns once succeeded and the CLI prints. */
+/**
+ * The result of a run (SPEC.md §3) — what the engine returns and the CLI prints — and the run as
+ * `GET /v1/runs/{id}` shows it: zod schemas, the types inferred from them, and the JSON Schema in
+ * `openapi/openapi.yaml` generated from them (`npm run gen:openapi`). Isomorphic — no node imports.
+ */
+import { z } from 'zod';
+import { reductionsSchema } from './site-spec';
 
+/**
+ * The named parts of the result and the run, as `openapi/openapi.yaml` lists them under
+ * `components/schemas` (response bodies: generated with `io: 'output'`).
+ */
+export const runComponents = z.registry<{ id: string }>();
+
+/** A run's states, in the order a run passes through them: queued → running → one of the last three. */
 export const RUN_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
-export type RunStatus = (typeof RUN_STATUSES)[number];
-/** `no-solution`: the time limit was hit before any feasible schedule was found. */
-export type SolveOutcome = 'optimal' | 'feasible' | 'infeasible' | 'no-solution';
+export const runStatusSchema = z.enum(RUN_STATUSES).register(runComponents, { id: 'RunStatus' });
+export type RunStatus = z.infer<typeof runStatusSchema>;
 
-export interface ObjectiveReport {
-  /** The SPEC.md §2 objective evaluated on the returned schedule; null when there is no schedule. */
-  value: number | null;
-  /** The solver's dual bound (monolithic only); null when unknown. */
-  bound: number | null;
-  /** Relative MIP gap; null when unknown. */
-  gap: number | null;
-}
+const solveOutcomeSchema = z
+  .enum(['optimal', 'feasible', 'infeasible', 'no-solution'])
+  .meta({ description: '`no-solution`: the time limit was hit before any feasible schedule was found.' })
+  .register(runComponents, { id: 'SolveOutcome' });
+export type SolveOutcome = z.infer<typeof solveOutcomeSchema>;
 
-export interface UnitKpis {
-  energyKwh: number;
-  starts: number;
-  onSteps: number;
-}
+const objectiveSchema = z.object({
+  value: z
+    .number()
+    .nullable()
+    .meta({ description: 'The SPEC.md §2 objective evaluated on the returned schedule; null when there is no schedule.' }),
+  bound: z.number().nullable().meta({ description: "The solver's dual bound (monolithic only); null when unknown." }),
+  gap: z.number().nullable().meta({ description: 'Relative MIP gap; null when unknown.' }),
+});
+export type ObjectiveReport = z.infer<typeof objectiveSchema>;
 
-export interface StorageKpis {
-  chargedKwh: number;
-  dischargedKwh: number;
-  finalSocKwh: number;
-}
+const count = z.number().int().min(0);
 
-export interface Kpis {
-  suppliedKwh: number;
-  curtailedKwh: number;
-  importKwh: number;
-  exportKwh: number;
-  unservedKwh: number;
-  units: Record<string, UnitKpis>;
-  storage: Record<string, StorageKpis>;
-}
+const unitKpisSchema = z.object({ energyKwh: z.number(), starts: count, onSteps: count });
+export type UnitKpis = z.infer<typeof unitKpisSchema>;
+const storageKpisSchema = z.object({ chargedKwh: z.number(), dischargedKwh: z.number(), finalSocKwh: z.number() });
+export type StorageKpis = z.infer<typeof storageKpisSchema>;
 
-export interface UnitSchedule {
-  /** 0 or 1 per step. */
-  on: number[];
-  powerKw: number[];
-}
+const kpisSchema = z
+  .object({
+    suppliedKwh: z.number(),
+    curtailedKwh: z.number(),
+    importKwh: z.number(),
+    exportKwh: z.number(),
+    unservedKwh: z.number(),
+    units: z.record(z.string(), unitKpisSchema),
+    storage: z.record(z.string(), storageKpisSchema),
+  })
+  .register(runComponents, { id: 'Kpis' });
+export type Kpis = z.infer<typeof kpisSchema>;
 
-export interface StorageSchedule {
-  chargeKw: number[];
-  dischargeKw: number[];
-  /** State of charge at the END of each step. */
-  socKwh: number[];
-}
+const perStep = z.array(z.number());
 
-export interface Schedule {
-  /** Start of each step, ISO 8601 with the horizon's offset. */
-  timestamps: string[];
-  supplyUsedKw: number[];
-  curtailedKw: number[];
-  unservedKw: number[];
-  grid: { importKw: number[]; exportKw: number[] };
-  units: Record<string, UnitSchedule>;
-  storage: Record<string, StorageSchedule>;
-}
+const unitScheduleSchema = z.object({
+  on: z.array(z.number().int().min(0).max(1)).meta({ description: '0 or 1 per step.' }),
+  powerKw: perStep,
+});
+export type UnitSchedule = z.infer<typeof unitScheduleSchema>;
+const storageScheduleSchema = z.object({
+  chargeKw: perStep,
+  dischargeKw: perStep,
+  socKwh: perStep.meta({ description: 'State of charge at the end of each step.' }),
+});
+export type StorageSchedule = z.infer<typeof storageScheduleSchema>;
 
-export interface WindowReport {
-  /**
-   * `window`: a model whose first `committedSteps` steps are kept. `seam-probe`: a window solved
-   * only to choose the state where a parallel segment of the rolling horizon starts; it keeps nothing.
-   */
-  kind: 'window' | 'seam-probe';
-  fromStep: number;
-  /** Last step of the window's model (inclusive). */
-  toStep: number;
-  committedSteps: number;
-  outcome: SolveOutcome;
-  gap: number | null;
-  /** Independent parts the model split into and was solved in (reduction `independentBlocks`). */
-  blocks: number;
-  solveSeconds: number;
-}
+const scheduleSchema = z
+  .object({
+    timestamps: z
+      .array(z.iso.datetime({ offset: true }))
+      .meta({ description: "Start of each step, ISO 8601 with the horizon's offset." }),
+    supplyUsedKw: perStep,
+    curtailedKw: perStep,
+    unservedKw: perStep,
+    grid: z.object({ importKw: perStep, exportKw: perStep }),
+    units: z.record(z.string(), unitScheduleSchema),
+    storage: z.record(z.string(), storageScheduleSchema),
+  })
+  .meta({ description: "Per-step values; `timestamps` are the starts of the steps with the spec's offset. Advisory — an operator approves setpoints." })
+  .register(runComponents, { id: 'Schedule' });
+export type Schedule = z.infer<typeof scheduleSchema>;
 
-/** [smallest, largest] absolute non-zero value; null when the model has no such coefficient. */
-export type CoefficientSpan = [number, number] | null;
+const windowReportSchema = z.object({
+  kind: z.enum(['window', 'seam-probe']).meta({
+    description:
+      '`window`: a model whose first `committedSteps` steps are kept. `seam-probe`: a window solved only to choose the state ' +
+      'where a parallel segment of the rolling horizon starts; it keeps no steps.',
+  }),
+  fromStep: count,
+  toStep: count.meta({ description: 'Last step of the window (inclusive).' }),
+  committedSteps: count,
+  outcome: solveOutcomeSchema,
+  gap: z.number().nullable(),
+  blocks: count.meta({ description: 'Independent parts the model was solved in (reduction independentBlocks).' }),
+  solveSeconds: z.number().meta({ description: 'Solver time, blocks summed; time waiting for a free solver thread is not counted.' }),
+});
+export type WindowReport = z.infer<typeof windowReportSchema>;
 
-export interface ModelReport {
-  mode: 'monolithic' | 'rolling';
-  windows: WindowReport[];
-  /** Counts are summed over all windows in rolling mode. */
-  variables: number;
-  binaries: number;
-  binariesPruned: number;
-  constraints: number;
-  nonzeros: number;
-  /** After scaling, across all windows. */
-  coefficientRange: { matrix: CoefficientSpan; objective: CoefficientSpan; bounds: CoefficientSpan; rhs: CoefficientSpan };
-  /** Every big-M in kW (unscaled); one entry per place, the largest value over steps. */
-  bigM: { where: string; value: number }[];
-  reductions: { sparseSets: boolean; tightBigM: boolean; scaling: boolean; relaxExclusivity: boolean; independentBlocks: boolean };
-  /** Rolling mode: sequences of windows solved side by side (1: one sequence). */
-  segments: number;
-  /** The internal units chosen by `scaling` (1 kW and 1 money unit when off). */
-  scale: { powerKw: number; money: number };
-  buildSeconds: number;
-  solveSeconds: number;
-  solver: { name: string; version: string };
-}
+const coefficientSpan = z
+  .tuple([z.number(), z.number()])
+  .nullable()
+  .meta({ description: '[smallest, largest] absolute non-zero value; null when the model has no such coefficient.' })
+  .register(runComponents, { id: 'CoefficientSpan' });
+export type CoefficientSpan = z.infer<typeof coefficientSpan>;
 
-export interface StepRange {
-  from: number;
-  /** Inclusive. */
-  to: number;
-}
+const modelReportSchema = z
+  .object({
+    mode: z.enum(['monolithic', 'rolling']),
+    windows: z.array(windowReportSchema),
+    variables: count,
+    binaries: count,
+    binariesPruned: count,
+    constraints: count,
+    nonzeros: count,
+    coefficientRange: z
+      .object({ matrix: coefficientSpan, objective: coefficientSpan, bounds: coefficientSpan, rhs: coefficientSpan })
+      .meta({ description: '[smallest, largest] absolute non-zero value of each family, or null.' }),
+    bigM: z
+      .array(z.object({ where: z.string(), value: z.number() }))
+      .meta({ description: 'Every big-M in kW (unscaled); one entry per place, the largest value over steps.' }),
+    reductions: reductionsSchema.meta({ description: 'The formulation techniques the spec left switched on.' }),
+    segments: count.meta({ description: 'Sequences of rolling windows solved side by side (1: one sequence, or monolithic).' }),
+    scale: z
+      .object({ powerKw: z.number(), money: z.number() })
+      .meta({ description: 'The internal units chosen by `scaling` (1 kW and 1 money unit when off).' }),
+    buildSeconds: z.number(),
+    solveSeconds: z
+      .number()
+      .meta({ description: 'Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time.' }),
+    solver: z.object({ name: z.string(), version: z.string() }),
+  })
+  .meta({
+    description:
+      'The formulation report. Counts are summed over every window solved (seam probes included); coefficient ranges are ' +
+      'after scaling, across all windows; big-M values in kW, the largest per place.',
+  })
+  .register(runComponents, { id: 'ModelReport' });
+export type ModelReport = z.infer<typeof modelReportSchema>;
 
-export interface ResultWarning {
-  code: string;
-  message: string;
-  /** RFC 6901 pointer into the submitted spec. */
-  pointer?: string;
-  steps?: StepRange[];
-}
+const stepRangeSchema = z.object({ from: count, to: count.meta({ description: 'Inclusive.' }) });
+export type StepRange = z.infer<typeof stepRangeSchema>;
 
-export interface RunResult {
-  status: RunStatus;
-  outcome: SolveOutcome;
-  objective: ObjectiveReport;
-  /** null when there is no schedule (infeasible, no-solution). */
-  kpis: Kpis | null;
-  schedule: Schedule | null;
-  model: ModelReport;
-  warnings: ResultWarning[];
-}
+const resultWarningSchema = z
+  .object({
+    code: z.string(),
+    message: z.string(),
+    pointer: z.string().optional().meta({ description: 'RFC 6901 pointer into the spec.' }),
+    steps: z.array(stepRangeSchema).optional(),
+  })
+  .register(runComponents, { id: 'ResultWarning' });
+export type ResultWarning = z.infer<typeof resultWarningSchema>;
+
+const resultFields = {
+  objective: objectiveSchema,
+  kpis: kpisSchema.nullable().meta({ description: 'null when there is no schedule (infeasible, no-solution).' }),
+  schedule: scheduleSchema.nullable(),
+  model: modelReportSchema,
+  warnings: z.array(resultWarningSchema),
+};
+
+export const runResultSchema = z.object({ status: runStatusSchema, outcome: solveOutcomeSchema, ...resultFields });
+export type RunResult = z.infer<typeof runResultSchema>;
+
+const timestamp = z.iso.datetime();
+
+/** Why a run ended without a schedule, or failed with one (infeasible, no-solution). */
+const runErrorSchema = z.object({
+  code: z.enum(['infeasible', 'no-solution', 'time-limit', 'solver-error', 'invalid-spec', 'cancelled', 'worker-lost']),
+  message: z.string(),
+});
+export type RunError = z.infer<typeof runErrorSchema>;
+
+/** A run over HTTP; lists leave out the result fields. */
+export const runSchema = z
+  .object({
+    id: z.uuid(),
+    name: z.string().nullable(),
+    status: runStatusSchema,
+    outcome: solveOutcomeSchema.nullable(),
+    createdAt: timestamp,
+    queuedAt: timestamp,
+    startedAt: timestamp.nullable(),
+    finishedAt: timestamp.nullable(),
+    cancelRequestedAt: timestamp.nullable(),
+    steps: count,
+    units: count,
+    progress: z.object({ windowsDone: count, windowsTotal: count.nullable(), percent: z.number() }),
+    attempts: count.meta({ description: 'How many times a worker has taken the run (more than 1 only after a worker crashed).' }),
+    solverSeconds: z.number().nullable(),
+    error: runErrorSchema.nullable(),
+    links: z.object({ self: z.string(), spec: z.string(), schedule: z.string(), cancel: z.string(), deliveries: z.string() }),
+    ...z.object(resultFields).partial().shape,
+  })
+  .meta({
+    description:
+      'A run. `status` is the state machine (queued → running → succeeded | failed | cancelled); `outcome` what the solver ' +
+      'found (optimal | feasible | infeasible | no-solution). A run that ends infeasible or without a solution is `failed` ' +
+      'with its result and diagnosis. Once finished, the result of SPEC §3 (`objective`, `kpis`, `schedule`, `model`, ' +
+      '`warnings`) is included at the top level (lists leave it out).',
+  })
+  .register(runComponents, { id: 'Run' });
+export type RunView = z.infer<typeof runSchema>;

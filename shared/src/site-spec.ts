@@ -1,31 +1,19 @@
 /**
- * The site spec v1 (SPEC.md §1): the zod schema both the API and the console validate with,
- * the cross-field rules, and the resolution of every default into the engine's input.
- * Isomorphic on purpose — no node imports.
+ * The site spec v1 (SPEC.md §1) — the one description of it: the zod schema the API, the worker,
+ * the CLI and the console validate with (constant defaults included), the cross-field rules, the
+ * engine's resolved input (its type inferred from a schema) and the one step that resolves the
+ * defaults that depend on other fields. `openapi/openapi.yaml` carries the JSON Schema generated
+ * from these (`npm run gen:openapi`). Isomorphic on purpose — no node imports.
  */
 import { z } from 'zod';
 import { buildPointer, parsePointer } from './json-pointer';
 
 export const MAX_STEPS = 35_136;
-export const MAX_UNITS = 50;
-export const MAX_STORAGE = 20;
+const MAX_UNITS = 50;
+const MAX_STORAGE = 20;
 export const STEP_MINUTES = [5, 10, 15, 30, 60] as const;
 export const MAX_TIME_LIMIT_SECONDS = 3_600;
-export const DEFAULT_TIME_LIMIT_SECONDS = 60;
-
-/**
- * The time limit when a spec names none: 60 s, growing with the horizon so a rolling year
- * (35 040 steps ⇒ 584 s) has about 1.6 s per daily window even on a busy machine.
- */
-export function defaultTimeLimitSeconds(steps: number): number {
-  return Math.min(MAX_TIME_LIMIT_SECONDS, Math.max(DEFAULT_TIME_LIMIT_SECONDS, Math.ceil(steps / 60)));
-}
-export const DEFAULT_MIP_GAP = 1e-4;
-/**
- * Rolling windows per parallel segment: a horizon of at least twice this many windows is cut
- * into segments of about this many, solved side by side (a month of daily windows each).
- */
-export const DEFAULT_SEGMENT_WINDOWS = 32;
+const DEFAULT_MIP_GAP = 1e-4;
 /** Validation stops listing errors after this many, so a bad 35 000-value array stays readable. */
 const MAX_REPORTED_ERRORS = 100;
 
@@ -34,10 +22,16 @@ const MAX_REPORTED_ERRORS = 100;
  * between these bounds. A 1e-250 kW rating or a 1e300 kW supply is finite, but no double-precision
  * solver can tell it from 0 or infinity next to ordinary figures, so the spec is refused instead.
  */
-export const MIN_POWER = 1e-6;
-export const MAX_POWER = 1e9;
-export const MIN_PRICE = 1e-9;
-export const MAX_PRICE = 1e6;
+const MIN_POWER = 1e-6;
+const MAX_POWER = 1e9;
+const MIN_PRICE = 1e-9;
+const MAX_PRICE = 1e6;
+
+/**
+ * The named parts of the spec, as `openapi/openapi.yaml` lists them under `components/schemas`
+ * (request bodies: generated with `io: 'input'`, so a field with a default is optional).
+ */
+export const siteSpecComponents = z.registry<{ id: string }>();
 
 const nonNegative = z
   .number()
@@ -50,99 +44,187 @@ const money = z
   .min(-MAX_PRICE)
   .max(MAX_PRICE)
   .refine((v) => v === 0 || Math.abs(v) >= MIN_PRICE, `must be 0 or at least ${MIN_PRICE} in size`);
-const nonNegativeMoney = money.refine((v) => v >= 0, 'must be at least 0');
-const kwSeries = z.array(nonNegative).min(1).max(MAX_STEPS);
-const priceSeries = z.union([money, z.array(money).min(1).max(MAX_STEPS)]);
-const id = z
+const nonNegativeMoney = z
+  .number()
+  .min(0, 'must be at least 0')
+  .max(MAX_PRICE)
+  .refine((v) => v === 0 || v >= MIN_PRICE, `must be 0 or at least ${MIN_PRICE} in size`);
+const kwSeries = z
+  .array(nonNegative)
+  .min(1)
+  .max(MAX_STEPS)
+  .meta({ description: 'One value per step (length = `horizon.steps`), each ≥ 0.' })
+  .register(siteSpecComponents, { id: 'KwSeries' });
+const priceSeries = z
+  .union([money, z.array(money).min(1).max(MAX_STEPS)])
+  .meta({ description: 'One price for every step, or one per step.' })
+  .register(siteSpecComponents, { id: 'PriceSeries' });
+const assetId = z
   .string()
   .min(1)
   .max(64)
-  .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'must start with a letter or digit and use only letters, digits, ".", "_" and "-"');
+  .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'must start with a letter or digit and use only letters, digits, ".", "_" and "-"')
+  .register(siteSpecComponents, { id: 'AssetId' });
 const steps = z.number().int().min(1).max(MAX_STEPS);
 
 const horizonSchema = z.strictObject({
-  start: z.iso.datetime({ offset: true, error: 'must be an ISO 8601 date-time with a UTC offset, e.g. 2027-03-01T00:00:00+01:00' }),
-  stepMinutes: z.union(STEP_MINUTES.map((m) => z.literal(m)), {
-    error: `must be one of ${STEP_MINUTES.join(', ')}`,
-  }),
-  steps,
+  start: z.iso
+    .datetime({ offset: true, error: 'must be an ISO 8601 date-time with a UTC offset, e.g. 2027-03-01T00:00:00+01:00' })
+    .meta({ description: 'ISO 8601 with a UTC offset.' }),
+  stepMinutes: z.literal(STEP_MINUTES, { error: `must be one of ${STEP_MINUTES.join(', ')}` }),
+  steps: steps.meta({ description: 'Up to 366 days at 15 min; a plan may cap it lower.' }),
 });
 
-const supplySchema = z.union([
-  z.strictObject({ availableKw: kwSeries }),
-  z.strictObject({ seriesId: z.string().min(1).max(100) }),
-], { error: 'must be { "availableKw": [kW per step] } or { "seriesId": "<an uploaded series>" }' });
+const supplySchema = z
+  .union(
+    [
+      z.strictObject({ availableKw: kwSeries }),
+      z.strictObject({ seriesId: z.string().min(1).max(100).meta({ example: 'ser_6f1c2a9e0b7d4c3e8a5f1b2c3d4e5f60' }) }),
+    ],
+    { error: 'must be { "availableKw": [kW per step] } or { "seriesId": "<an uploaded series>" }' },
+  )
+  .meta({ description: 'Available supply per step: inline, or an uploaded series (`POST /v1/series`).' });
 
 const siteLoadSchema = z.strictObject({
   kw: kwSeries,
-  unservedPenaltyPerKwh: nonNegativeMoney.optional(),
+  unservedPenaltyPerKwh: nonNegativeMoney.optional().meta({ description: 'Absent: the load is hard.' }),
 });
 
-const gridSchema = z.strictObject({
-  importLimitKw: nonNegative.optional(),
-  exportLimitKw: nonNegative.optional(),
-  importPrice: priceSeries.optional(),
-  exportPrice: priceSeries.optional(),
-});
+const gridSchema = z
+  .strictObject({
+    importLimitKw: nonNegative.default(0),
+    exportLimitKw: nonNegative.default(0),
+    importPrice: priceSeries.default(0),
+    exportPrice: priceSeries.default(0),
+  })
+  .meta({ description: 'Absent: an island (no import, no export).' });
 
-const unitSchema = z.strictObject({
-  id,
-  kind: z.enum(['flexible-load', 'generator']),
-  ratingKw: positive,
-  minStableKw: nonNegative.optional(),
-  valuePerKwh: money.optional(),
-  costPerKwh: money.optional(),
-  startupCost: nonNegativeMoney.optional(),
-  minUpSteps: steps.optional(),
-  minDownSteps: steps.optional(),
-  initial: z
-    .strictObject({
-      on: z.boolean(),
-      /** Steps the unit has already been in that state before step 0; absent ⇒ longer than any minimum. */
-      stepsInState: z.number().int().min(0).optional(),
-    })
-    .optional(),
-});
+const unitSchema = z
+  .strictObject({
+    id: assetId,
+    kind: z.enum(['flexible-load', 'generator']),
+    ratingKw: positive,
+    minStableKw: nonNegative.default(0).meta({ description: 'Default 0; at most ratingKw.' }),
+    valuePerKwh: money.default(0).meta({ description: 'Flexible loads; default 0.' }),
+    costPerKwh: money.default(0).meta({ description: 'Generators; default 0.' }),
+    startupCost: nonNegativeMoney.default(0),
+    minUpSteps: steps.default(1),
+    minDownSteps: steps.default(1),
+    initial: z
+      .strictObject({
+        on: z.boolean(),
+        stepsInState: z
+          .number()
+          .int()
+          .min(0)
+          .optional()
+          .meta({ description: 'Steps the unit has already been in that state before step 0; absent: longer than any minimum.' }),
+      })
+      .prefault({ on: false })
+      .meta({ description: 'Default: off for longer than any minimum.' }),
+  })
+  .register(siteSpecComponents, { id: 'UnitSpec' });
 
 /** SPEC.md §1 allows (0, 1]; below 0.1 % the SOC equation's coefficients leave the solver's range. */
 const efficiency = z.number().min(1e-3, 'must be in (0, 1] and at least 0.001').max(1);
 
-const storageSchema = z.strictObject({
-  id,
-  capacityKwh: positive,
-  maxChargeKw: nonNegative,
-  maxDischargeKw: nonNegative,
-  chargeEfficiency: efficiency.optional(),
-  dischargeEfficiency: efficiency.optional(),
-  minSocKwh: nonNegative.optional(),
-  initialSocKwh: nonNegative,
-  finalSocKwh: nonNegative.optional(),
-  cycleCostPerKwh: nonNegativeMoney.optional(),
-});
+const storageSchema = z
+  .strictObject({
+    id: assetId,
+    capacityKwh: positive,
+    maxChargeKw: nonNegative,
+    maxDischargeKw: nonNegative,
+    chargeEfficiency: efficiency.default(1),
+    dischargeEfficiency: efficiency.default(1),
+    minSocKwh: nonNegative.default(0),
+    initialSocKwh: nonNegative,
+    finalSocKwh: nonNegative.optional().meta({ description: 'Absent: no target.' }),
+    cycleCostPerKwh: nonNegativeMoney.default(0),
+  })
+  .register(siteSpecComponents, { id: 'StorageSpec' });
 
-const reductionsSchema = z.strictObject({
-  sparseSets: z.boolean().optional(),
-  tightBigM: z.boolean().optional(),
-  scaling: z.boolean().optional(),
-  relaxExclusivity: z.boolean().optional(),
-  independentBlocks: z.boolean().optional(),
-});
+export const reductionsSchema = z
+  .strictObject({
+    sparseSets: z.boolean().default(true).meta({ description: 'On/off binaries only at steps where a unit can run at all.' }),
+    tightBigM: z.boolean().default(true).meta({ description: 'Every big-M the smallest valid bound (a rating, a per-step reachable power).' }),
+    scaling: z.boolean().default(true).meta({ description: 'Internal power and money units (powers of ten) that keep coefficients near 1.' }),
+    relaxExclusivity: z
+      .boolean()
+      .default(true)
+      .meta({ description: 'No charge/discharge or import/export binary where doing both at once can never pay.' }),
+    independentBlocks: z
+      .boolean()
+      .default(true)
+      .meta({
+        description:
+          'Solve the parts of a model that no constraint links separately and in parallel: with no storage, steps where sparse ' +
+          'sets leave every unit off for at least its minimum down time separate the horizon into independent blocks. Their ' +
+          'optima add up to the optimum.',
+      }),
+  })
+  .meta({ description: 'Each formulation technique can be switched off; none changes the optimum. All default to true.' })
+  .register(siteSpecComponents, { id: 'Reductions' });
 
-const solverSchema = z.strictObject({
-  mode: z.enum(['auto', 'monolithic', 'rolling']).optional(),
-  window: z
-    .strictObject({
-      windowSteps: steps.optional(),
-      commitSteps: steps.optional(),
-      segmentWindows: z.number().int().min(0).max(MAX_STEPS).refine((v) => v === 0 || v >= 2, 'must be 0 (one sequence) or at least 2').optional(),
-      lookahead: z.enum(['relaxed', 'integer']).optional(),
-    })
-    .optional(),
-  /** Wall-clock limit for the whole run (all windows together in rolling mode). */
-  timeLimitSeconds: z.number().positive().max(MAX_TIME_LIMIT_SECONDS).optional(),
-  mipGap: z.number().min(0).max(1).optional(),
-  reductions: reductionsSchema.optional(),
-});
+const windowSchema = z
+  .strictObject({
+    windowSteps: steps.optional(),
+    commitSteps: steps.optional(),
+    segmentWindows: z
+      .number()
+      .int()
+      .min(0)
+      .max(MAX_STEPS)
+      .refine((v) => v === 0 || v >= 2, 'must be 0 (one sequence) or at least 2')
+      .default(32)
+      .meta({
+        description:
+          'A horizon of at least twice this many windows is cut into segments of about this many, solved side by side. The ' +
+          'state where a segment starts is chosen beforehand by a probe window solved from one commit earlier; the segment ' +
+          'before must end in it. When a segment cannot (or a probe finds no schedule) the horizon is solved on from before ' +
+          'that seam as one sequence. The cut depends on the spec alone, so the schedule is the same on any machine. 0 keeps ' +
+          'one sequence, as does a horizon of fewer than twice this many windows; 1 is refused. Default 32 (a month of daily windows).',
+      }),
+    lookahead: z
+      .enum(['relaxed', 'integer'])
+      .default('relaxed')
+      .meta({
+        description:
+          '`relaxed` (default): the steps a window solves beyond those it keeps have their on/off and exclusivity decisions ' +
+          'relaxed to [0, 1] (relax-and-fix): they only value the state the kept steps leave. The kept steps are always ' +
+          'integral. `integer` solves the whole window as a MIP (slower; on the benchmark sites it changed the objective by under 0.01 %).',
+      }),
+  })
+  .meta({
+    description:
+      'Rolling horizon: solve `windowSteps`, keep `commitSteps`, carry SOC, on/off state and time in state into the next ' +
+      'window. Default: the steps in 36 h and 24 h. Non-final windows credit energy left in storage at what it would fetch ' +
+      "later (the median import price over the lookahead, or the island's value of energy), times the discharge efficiency.",
+  });
+
+const solverSchema = z
+  .strictObject({
+    mode: z
+      .enum(['auto', 'monolithic', 'rolling'])
+      .default('auto')
+      .meta({
+        description:
+          '`auto` solves short horizons whole and rolls on long ones, unless the model falls apart into small independent ' +
+          'blocks (a site without storage whose units cannot run at night): then it is solved whole, and exactly, however long the horizon.',
+      }),
+    window: windowSchema.prefault({}),
+    timeLimitSeconds: z
+      .number()
+      .positive()
+      .max(MAX_TIME_LIMIT_SECONDS)
+      .optional()
+      .meta({
+        description:
+          'Wall-clock limit for the whole run (all rolling windows together). Default: 60 s, or steps ÷ 60 seconds on longer ' +
+          'horizons (a 15-minute year gets 584 s).',
+      }),
+    mipGap: z.number().min(0).max(1).default(DEFAULT_MIP_GAP).meta({ description: 'Relative MIP gap; default 0.0001.' }),
+    reductions: reductionsSchema.prefault({}),
+  });
 
 const baseSchema = z.strictObject({
   name: z.string().max(200).optional(),
@@ -152,10 +234,8 @@ const baseSchema = z.strictObject({
   grid: gridSchema.optional(),
   units: z.array(unitSchema).max(MAX_UNITS).default([]),
   storage: z.array(storageSchema).max(MAX_STORAGE).default([]),
-  solver: solverSchema.optional(),
+  solver: solverSchema.prefault({}),
 });
-
-type BaseSpec = z.infer<typeof baseSchema>;
 
 export interface SpecIssue {
   pointer: string;
@@ -163,7 +243,7 @@ export interface SpecIssue {
 }
 
 /** The rules that relate one field to another (SPEC.md §1 limits that zod shapes cannot express). */
-export function crossFieldIssues(spec: BaseSpec): SpecIssue[] {
+function crossFieldIssues(spec: z.output<typeof baseSchema>): SpecIssue[] {
   const issues: SpecIssue[] = [];
   const T = spec.horizon.steps;
   const lengthIs = (pointer: string, values: unknown) => {
@@ -186,13 +266,13 @@ export function crossFieldIssues(spec: BaseSpec): SpecIssue[] {
   };
   spec.units.forEach((u, i) => {
     claimId(u.id, `/units/${i}/id`);
-    if (u.minStableKw !== undefined && u.minStableKw > u.ratingKw) {
+    if (u.minStableKw > u.ratingKw) {
       issues.push({ pointer: `/units/${i}/minStableKw`, message: `${u.minStableKw} exceeds ratingKw ${u.ratingKw}` });
     }
   });
   spec.storage.forEach((s, i) => {
     claimId(s.id, `/storage/${i}/id`);
-    const minSoc = s.minSocKwh ?? 0;
+    const minSoc = s.minSocKwh;
     if (minSoc > s.capacityKwh) {
       issues.push({ pointer: `/storage/${i}/minSocKwh`, message: `${minSoc} exceeds capacityKwh ${s.capacityKwh}` });
     }
@@ -204,132 +284,119 @@ export function crossFieldIssues(spec: BaseSpec): SpecIssue[] {
     }
   });
 
-  const w = spec.solver?.window;
-  if (w?.windowSteps !== undefined && w.commitSteps !== undefined && w.commitSteps > w.windowSteps) {
+  const w = spec.solver.window;
+  if (w.windowSteps !== undefined && w.commitSteps !== undefined && w.commitSteps > w.windowSteps) {
     issues.push({ pointer: '/solver/window/commitSteps', message: `${w.commitSteps} exceeds windowSteps ${w.windowSteps}` });
   }
   return issues;
 }
 
-export const siteSpecSchema = baseSchema.superRefine((spec, ctx) => {
-  for (const issue of crossFieldIssues(spec)) {
-    ctx.addIssue({ code: 'custom', message: issue.message, path: pointerToPath(issue.pointer) });
-  }
-});
-
 function pointerToPath(pointer: string): (string | number)[] {
   return parsePointer(pointer).map((s) => (/^\d+$/.test(s) ? Number(s) : s));
 }
 
-/** The spec as submitted (supply may still name an uploaded series). */
-export type SiteSpec = z.infer<typeof siteSpecSchema>;
-export type UnitSpec = SiteSpec['units'][number];
-export type StorageSpec = SiteSpec['storage'][number];
-export type SolverMode = 'auto' | 'monolithic' | 'rolling';
+/** The spec as a request body: every SPEC.md §1 rule, the constant defaults filled in on parsing. */
+export const siteSpecSchema = baseSchema
+  .superRefine((spec, ctx) => {
+    for (const issue of crossFieldIssues(spec)) {
+      ctx.addIssue({ code: 'custom', message: issue.message, path: pointerToPath(issue.pointer) });
+    }
+  })
+  .meta({
+    description:
+      "The site spec v1 (SPEC.md §1). Powers kW, energies kWh, money in the tenant's currency. Beyond this schema the API " +
+      'checks (400 with pointers): array lengths equal `horizon.steps`, `minStableKw ≤ ratingKw`, `minSocKwh ≤ initialSocKwh ≤ ' +
+      'capacityKwh` (also `finalSocKwh`), ids unique across units and storage, `commitSteps ≤ windowSteps`, `segmentWindows` 0 ' +
+      "or at least 2, a `seriesId` of your tenant with the horizon's step covering the horizon; the plan's caps on steps and " +
+      'units (422). Extension points: `supply` is inline values or an uploaded series; prices are a number or one per step; ' +
+      '`solver.reductions` switches each formulation technique; `solver.mode` and `solver.window` choose the rolling horizon. ' +
+      'Unknown fields are refused.',
+  })
+  .register(siteSpecComponents, { id: 'SiteSpec' });
 
-export interface Reductions {
-  sparseSets: boolean;
-  tightBigM: boolean;
-  scaling: boolean;
-  relaxExclusivity: boolean;
-  independentBlocks: boolean;
-}
+/** The spec as a client writes it (what `GET /v1/runs/{id}/spec` returns); supply may name an uploaded series. */
+export type SiteSpec = z.input<typeof siteSpecSchema>;
+/** A spec that passed validation, its constant defaults filled in. */
+export type ValidSiteSpec = z.output<typeof siteSpecSchema>;
 
-export interface ResolvedUnit {
-  id: string;
-  kind: 'flexible-load' | 'generator';
-  ratingKw: number;
-  minStableKw: number;
-  valuePerKwh: number;
-  costPerKwh: number;
-  startupCost: number;
-  minUpSteps: number;
-  minDownSteps: number;
-  /** `stepsInState` is always a number here: "off for longer than any minimum" becomes max(minUp, minDown). */
-  initial: { on: boolean; stepsInState: number };
-}
+const resolvedUnitSchema = unitSchema.extend({
+  /** "Off for longer than any minimum" is resolved to max(minUpSteps, minDownSteps) steps. */
+  initial: z.strictObject({ on: z.boolean(), stepsInState: z.number().int().min(0) }),
+});
 
-export interface ResolvedStorage {
-  id: string;
-  capacityKwh: number;
-  maxChargeKw: number;
-  maxDischargeKw: number;
-  chargeEfficiency: number;
-  dischargeEfficiency: number;
-  minSocKwh: number;
-  initialSocKwh: number;
+const resolvedStorageSchema = storageSchema.extend({
   /** null: no final target. */
-  finalSocKwh: number | null;
-  cycleCostPerKwh: number;
-}
+  finalSocKwh: nonNegative.nullable(),
+});
 
 /** The engine's input: supply resolved to numbers, every default applied, every price an array of `steps`. */
-export interface ResolvedSiteSpec {
-  name: string | null;
-  horizon: { start: string; stepMinutes: number; steps: number };
-  supply: { availableKw: number[] };
+export const resolvedSiteSpecSchema = z.strictObject({
+  name: z.string().nullable(),
+  horizon: horizonSchema.extend({ stepMinutes: z.number().int() }),
+  supply: z.strictObject({ availableKw: kwSeries }),
   /** Always present; no site load ⇒ zeros. `unservedPenaltyPerKwh` null ⇒ the load is hard. */
-  siteLoad: { kw: number[]; unservedPenaltyPerKwh: number | null };
+  siteLoad: siteLoadSchema.extend({ unservedPenaltyPerKwh: nonNegativeMoney.nullable() }),
   /** Always present; `island` true when the spec had no grid (then limits are 0). */
-  grid: { island: boolean; importLimitKw: number; exportLimitKw: number; importPrice: number[]; exportPrice: number[] };
-  units: ResolvedUnit[];
-  storage: ResolvedStorage[];
-  solver: {
-    mode: SolverMode;
+  grid: gridSchema.extend({ island: z.boolean(), importPrice: z.array(money), exportPrice: z.array(money) }),
+  units: z.array(resolvedUnitSchema),
+  storage: z.array(resolvedStorageSchema),
+  solver: solverSchema.extend({
     /**
      * `segmentWindows` 0: one sequence of windows, never split into parallel segments.
      * `lookahead` "relaxed": binaries after a window's committed steps are relaxed to [0, 1].
      */
-    window: { windowSteps: number; commitSteps: number; segmentWindows: number; lookahead: 'relaxed' | 'integer' };
-    timeLimitSeconds: number;
-    mipGap: number;
-    reductions: Reductions;
-  };
+    window: windowSchema.extend({ windowSteps: steps, commitSteps: steps }),
+    timeLimitSeconds: z.number().positive().max(MAX_TIME_LIMIT_SECONDS),
+    reductions: reductionsSchema,
+  }),
+});
+
+export type ResolvedSiteSpec = z.output<typeof resolvedSiteSpecSchema>;
+export type ResolvedUnit = ResolvedSiteSpec['units'][number];
+export type ResolvedStorage = ResolvedSiteSpec['storage'][number];
+
+export type SpecValidation = { ok: true; spec: ValidSiteSpec } | { ok: false; errors: SpecIssue[] };
+
+/** zod names the object that has unknown keys; a client wants a pointer to each key. */
+function issuesOf(error: z.ZodError): SpecIssue[] {
+  return error.issues.flatMap((issue) =>
+    issue.code === 'unrecognized_keys'
+      ? issue.keys.map((key) => ({ pointer: buildPointer([...issue.path, key]), message: 'is not a field of the site spec' }))
+      : [{ pointer: buildPointer(issue.path), message: issue.message }],
+  );
 }
 
-export interface SpecLimits {
-  maxSteps?: number;
-  maxUnits?: number;
-}
-
-export type SpecValidation = { ok: true; spec: SiteSpec } | { ok: false; errors: SpecIssue[] };
-
-/** Validates against SPEC.md §1 (and a plan's lower caps); every error carries an RFC 6901 pointer. */
-export function validateSiteSpec(input: unknown, limits: SpecLimits = {}): SpecValidation {
+/** Validates against SPEC.md §1; every error carries an RFC 6901 pointer. */
+export function validateSiteSpec(input: unknown): SpecValidation {
   const parsed = siteSpecSchema.safeParse(input);
-  if (!parsed.success) {
-    const errors = parsed.error.issues.slice(0, MAX_REPORTED_ERRORS).map((issue) => ({
-      pointer: buildPointer(issue.path),
-      message: issue.message,
-    }));
-    return { ok: false, errors };
-  }
-  const spec = parsed.data;
-  const errors: SpecIssue[] = [];
-  if (limits.maxSteps !== undefined && spec.horizon.steps > limits.maxSteps) {
-    errors.push({ pointer: '/horizon/steps', message: `${spec.horizon.steps} exceeds your plan's limit of ${limits.maxSteps} steps` });
-  }
-  if (limits.maxUnits !== undefined && spec.units.length > limits.maxUnits) {
-    errors.push({ pointer: '/units', message: `${spec.units.length} units exceed your plan's limit of ${limits.maxUnits}` });
-  }
-  return errors.length ? { ok: false, errors } : { ok: true, spec };
+  if (parsed.success) return { ok: true, spec: parsed.data };
+  return { ok: false, errors: issuesOf(parsed.error).slice(0, MAX_REPORTED_ERRORS) };
 }
 
 /** Steps in `hours` hours at this step length (at least one). */
-export function stepsInHours(hours: number, stepMinutes: number): number {
+function stepsInHours(hours: number, stepMinutes: number): number {
   return Math.max(1, Math.round((hours * 60) / stepMinutes));
 }
 
-function priceArray(price: number | number[] | undefined, T: number): number[] {
-  if (Array.isArray(price)) return price.slice();
-  return new Array<number>(T).fill(price ?? 0);
+/**
+ * The time limit when a spec names none: 60 s, growing with the horizon so a rolling year
+ * (35 040 steps ⇒ 584 s) has about 1.6 s per daily window even on a busy machine.
+ */
+function defaultTimeLimitSeconds(steps: number): number {
+  return Math.min(MAX_TIME_LIMIT_SECONDS, Math.max(60, Math.ceil(steps / 60)));
+}
+
+function priceArray(price: number | number[], T: number): number[] {
+  return Array.isArray(price) ? price.slice() : new Array<number>(T).fill(price);
 }
 
 /**
- * Applies every default of SPEC.md §1. A spec whose supply names a series needs its values in
- * `availableKw` (looked up by the caller); a spec with inline supply ignores the argument.
+ * Resolves the defaults that depend on other fields (SPEC.md §1): supply from the series values
+ * the caller looked up (a spec with inline supply ignores `availableKw`), scalar prices to one per
+ * step, no grid to an island, no site load to zeros, a unit's time in its initial state, the
+ * rolling windows from the step length and the time limit from the horizon.
  */
-export function resolveDefaults(spec: SiteSpec, availableKw?: number[]): ResolvedSiteSpec {
+export function resolveDefaults(spec: ValidSiteSpec, availableKw?: number[]): ResolvedSiteSpec {
   const T = spec.horizon.steps;
   let supply: number[];
   if ('availableKw' in spec.supply) supply = spec.supply.availableKw.slice();
@@ -337,70 +404,31 @@ export function resolveDefaults(spec: SiteSpec, availableKw?: number[]): Resolve
   else throw new Error(`supply.seriesId "${spec.supply.seriesId}" needs its values to resolve the spec`);
   if (supply.length !== T) throw new Error(`supply has ${supply.length} values; horizon.steps is ${T}`);
 
-  const stepMinutes = spec.horizon.stepMinutes;
-  const windowSteps = spec.solver?.window?.windowSteps ?? stepsInHours(36, stepMinutes);
-  const commitSteps = spec.solver?.window?.commitSteps ?? Math.min(windowSteps, stepsInHours(24, stepMinutes));
-  const segmentWindows = spec.solver?.window?.segmentWindows ?? DEFAULT_SEGMENT_WINDOWS;
-  const lookahead = spec.solver?.window?.lookahead ?? 'relaxed';
-  const r = spec.solver?.reductions;
-
+  const { solver } = spec;
+  const windowSteps = solver.window.windowSteps ?? stepsInHours(36, spec.horizon.stepMinutes);
+  const grid = spec.grid ?? gridSchema.parse({});
   return {
     name: spec.name ?? null,
-    horizon: { start: spec.horizon.start, stepMinutes, steps: T },
+    horizon: spec.horizon,
     supply: { availableKw: supply },
-    siteLoad: spec.siteLoad
-      ? { kw: spec.siteLoad.kw.slice(), unservedPenaltyPerKwh: spec.siteLoad.unservedPenaltyPerKwh ?? null }
-      : { kw: new Array<number>(T).fill(0), unservedPenaltyPerKwh: null },
-    grid: {
-      island: !spec.grid,
-      importLimitKw: spec.grid?.importLimitKw ?? 0,
-      exportLimitKw: spec.grid?.exportLimitKw ?? 0,
-      importPrice: priceArray(spec.grid?.importPrice, T),
-      exportPrice: priceArray(spec.grid?.exportPrice, T),
+    siteLoad: {
+      kw: spec.siteLoad ? spec.siteLoad.kw.slice() : new Array<number>(T).fill(0),
+      unservedPenaltyPerKwh: spec.siteLoad?.unservedPenaltyPerKwh ?? null,
     },
-    units: spec.units.map((u) => {
-      const minUpSteps = u.minUpSteps ?? 1;
-      const minDownSteps = u.minDownSteps ?? 1;
-      return {
-        id: u.id,
-        kind: u.kind,
-        ratingKw: u.ratingKw,
-        minStableKw: u.minStableKw ?? 0,
-        valuePerKwh: u.valuePerKwh ?? 0,
-        costPerKwh: u.costPerKwh ?? 0,
-        startupCost: u.startupCost ?? 0,
-        minUpSteps,
-        minDownSteps,
-        initial: {
-          on: u.initial?.on ?? false,
-          stepsInState: u.initial?.stepsInState ?? Math.max(minUpSteps, minDownSteps),
-        },
-      };
-    }),
-    storage: spec.storage.map((s) => ({
-      id: s.id,
-      capacityKwh: s.capacityKwh,
-      maxChargeKw: s.maxChargeKw,
-      maxDischargeKw: s.maxDischargeKw,
-      chargeEfficiency: s.chargeEfficiency ?? 1,
-      dischargeEfficiency: s.dischargeEfficiency ?? 1,
-      minSocKwh: s.minSocKwh ?? 0,
-      initialSocKwh: s.initialSocKwh,
-      finalSocKwh: s.finalSocKwh ?? null,
-      cycleCostPerKwh: s.cycleCostPerKwh ?? 0,
+    grid: { ...grid, island: !spec.grid, importPrice: priceArray(grid.importPrice, T), exportPrice: priceArray(grid.exportPrice, T) },
+    units: spec.units.map((u) => ({
+      ...u,
+      initial: { on: u.initial.on, stepsInState: u.initial.stepsInState ?? Math.max(u.minUpSteps, u.minDownSteps) },
     })),
+    storage: spec.storage.map((s) => ({ ...s, finalSocKwh: s.finalSocKwh ?? null })),
     solver: {
-      mode: spec.solver?.mode ?? 'auto',
-      window: { windowSteps, commitSteps, segmentWindows, lookahead },
-      timeLimitSeconds: spec.solver?.timeLimitSeconds ?? defaultTimeLimitSeconds(spec.horizon.steps),
-      mipGap: spec.solver?.mipGap ?? DEFAULT_MIP_GAP,
-      reductions: {
-        sparseSets: r?.sparseSets ?? true,
-        tightBigM: r?.tightBigM ?? true,
-        scaling: r?.scaling ?? true,
-        relaxExclusivity: r?.relaxExclusivity ?? true,
-        independentBlocks: r?.independentBlocks ?? true,
+      ...solver,
+      window: {
+        ...solver.window,
+        windowSteps,
+        commitSteps: solver.window.commitSteps ?? Math.min(windowSteps, stepsInHours(24, spec.horizon.stepMinutes)),
       },
+      timeLimitSeconds: solver.timeLimitSeconds ?? defaultTimeLimitSeconds(T),
     },
   };
 }
