@@ -36,6 +36,12 @@ export function buildApp(ctx: AppContext): Express {
   const app = express();
   const openapiText = readFileSync(openapiPath, 'utf8');
   const openapiDoc = parseYaml(openapiText);
+  // The request validator accepts any JSON value as a site spec: zod owns those bodies
+  // (shared/src/site-spec.ts), checks the cross-field rules too and names every field with an
+  // RFC 6901 pointer, and a body should meet one validator, not two wording the same error apart.
+  // Readers (/openapi.yaml, /docs) get the full schema.
+  const validatorDoc = structuredClone(openapiDoc);
+  validatorDoc.components.schemas.SiteSpec = {};
 
   app.disable('x-powered-by');
   app.set('trust proxy', ctx.config.trustProxy);
@@ -104,7 +110,7 @@ export function buildApp(ctx: AppContext): Express {
   app.use(cookieParser());
   app.use(
     OpenApiValidator.middleware({
-      apiSpec: openapiDoc,
+      apiSpec: validatorDoc,
       validateRequests: { allErrors: true, removeAdditional: false },
       validateResponses: false,
       validateSecurity: false,

@@ -1,6 +1,7 @@
 import { spawnSync } from 'node:child_process';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { runResultSchema } from '@gridwright/shared/run-result';
 
 const root = path.resolve(import.meta.dirname, '../..');
 const tsx = path.join(root, 'node_modules/.bin/tsx');
@@ -18,6 +19,8 @@ describe('solve CLI', () => {
     const result = JSON.parse(r.stdout);
     expect(result).toMatchObject({ status: 'succeeded', outcome: 'optimal', model: { mode: 'monolithic' } });
     expect(result.objective.value).toBeCloseTo(780, 6);
+    // The result is what SPEC.md §3 and the schema openapi.yaml is generated from describe.
+    expect(runResultSchema.strict().safeParse(result).error).toBeUndefined();
   });
 
   it('reads stdin, honours --mode and --no-reductions', () => {

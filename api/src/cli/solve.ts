@@ -68,7 +68,9 @@ async function main(solver: HighsSolverPool): Promise<void> {
   }
   const spec = resolveDefaults(checked.spec);
   if (values.mode) spec.solver.mode = values.mode as 'monolithic' | 'rolling';
-  if (values['no-reductions']) spec.solver.reductions = { sparseSets: false, tightBigM: false, scaling: false, relaxExclusivity: false, independentBlocks: false };
+  if (values['no-reductions']) {
+    for (const reduction of Object.keys(spec.solver.reductions) as (keyof typeof spec.solver.reductions)[]) spec.solver.reductions[reduction] = false;
+  }
 
   const result = await solveSite(spec, { solver });
   if (values.csv) {

@@ -1,11 +1,10 @@
-import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
 import { Deadline, workerHardStop } from '../engine/deadline';
 import { solveSite } from '../engine/solve-site';
 import type { SolverPort } from '../engine/solver-port';
 import { recordRunUsage } from '../services/quotas';
-import { lookupSupplySeries } from '../services/series-lookup';
+import { resolveSiteSpecForTenant } from '../services/resolve-site-spec';
 import { announceEnding } from './events';
 import {
   cancelRunningRun,
@@ -63,14 +62,13 @@ export async function superviseRun(ctx: AppContext, runId: string, { workerId, s
   };
   let progress: Progress | null = null;
 
-  let resolved: ResolvedSiteSpec;
-  try {
-    resolved = await resolveRunSpec(ctx, claimed);
-  } catch (err) {
-    const message = (err as Error).message;
+  const resolution = await resolveSiteSpecForTenant(ctx.db.manager, claimed.tenantId, claimed.spec);
+  if (!resolution.ok) {
+    const message = `The stored spec no longer validates: ${resolution.errors.map((e) => `${e.pointer} ${e.message}`).join('; ')}`;
     await conclude(ctx, claimed, UNSOLVED, (m, r) => failRun(m, claimed, { code: 'invalid-spec', message }, r));
     return;
   }
+  const { resolved } = resolution;
 
   const abort = new AbortController();
   let stopReason: StopReason | null = null;
@@ -140,12 +138,4 @@ async function conclude(ctx: AppContext, claimed: ClaimedRun, report: AttemptRep
   if (!ended) return;
   const usage = { tenantId: claimed.tenantId, runId: claimed.runId, solverSeconds: report.solverSeconds, steps: claimed.steps, units: claimed.units, endedAt: ended.finishedAt };
   await recordRunUsage(ctx, usage).catch((err) => ctx.log.error({ err, runId: claimed.runId }, 'recording run usage failed'));
-}
-
-async function resolveRunSpec(ctx: AppContext, claimed: ClaimedRun): Promise<ResolvedSiteSpec> {
-  const checked = validateSiteSpec(claimed.spec);
-  if (!checked.ok) throw new Error(`The stored spec no longer validates: ${checked.errors.map((e) => `${e.pointer} ${e.message}`).join('; ')}`);
-  const supply = await lookupSupplySeries(ctx.db.manager, claimed.tenantId, checked.spec);
-  if (!supply.ok) throw new Error(supply.errors.map((e) => `${e.pointer}: ${e.message}`).join('; '));
-  return resolveDefaults(checked.spec, supply.availableKw);
 }

@@ -1,4 +1,4 @@
-import type { RunResult } from '@gridwright/shared/run-result';
+import type { RunResult, RunView } from '@gridwright/shared/run-result';
 import type { Run } from '../db/entities/run';
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
@@ -14,7 +14,7 @@ export function runLinks(id: string) {
 }
 
 /** The run without its result: what lists show. */
-export function runSummary(run: Run) {
+export function runSummary(run: Run): RunView {
   const total = run.windowsTotal;
   return {
     id: run.id,
@@ -41,7 +41,7 @@ export function runSummary(run: Run) {
 }
 
 /** The run with, once it has one, the result of SPEC.md §3 at the top level. */
-export function runDetail(run: Run) {
+export function runDetail(run: Run): RunView {
   const result = run.result as RunResult | null;
   return {
     ...runSummary(run),

@@ -942,16 +942,7 @@ export interface paths {
 export type webhooks = Record<string, never>;
 export interface components {
     schemas: {
-        /**
-         * @description The site spec v1 (SPEC.md §1). Powers kW, energies kWh, money in the tenant's currency.
-         *     Beyond this schema the API checks (400 with pointers): array lengths equal `horizon.steps`,
-         *     `minStableKw ≤ ratingKw`, `minSocKwh ≤ initialSocKwh ≤ capacityKwh` (also `finalSocKwh`),
-         *     ids unique across units and storage, `commitSteps ≤ windowSteps`, `segmentWindows` 0 or at least 2, a `seriesId` of your tenant
-         *     with the horizon's step covering the horizon; the plan's caps on steps and units (422).
-         *     Extension points: `supply` is inline values or an uploaded series; prices are a number or
-         *     one per step; `solver.reductions` switches each formulation technique; `solver.mode` and
-         *     `solver.window` choose the rolling horizon. Unknown fields are refused.
-         */
+        /** @description The site spec (SPEC.md §1, extended by §5). Powers kW, energies kWh, money in the tenant's currency. Beyond this schema the API checks (400 with pointers): array lengths equal `horizon.steps`, `minStableKw ≤ ratingKw`, `minSocKwh ≤ initialSocKwh ≤ capacityKwh` (also `finalSocKwh`, and a store's `min ≤ initial ≤ capacity`), ids unique across units, storage and stores, a convex `costCurve` / concave `valueCurve` whose last `upToKw` is the rating (not beside the single figure it replaces), `cold ≥ hot` start costs, `initial.powerKw` within the output range of a unit that is on, `produces`/`consumes` naming an existing store, `commitSteps ≤ windowSteps`, `segmentWindows` 0 or at least 2, a `seriesId` of your tenant with the horizon's step covering the horizon; the plan's caps on steps and units (422). Extension points: `supply` is inline values or an uploaded series; prices are a number or one per step; `solver.reductions` switches each formulation technique; `solver.mode` and `solver.window` choose the rolling horizon. Unknown fields are refused. */
         SiteSpec: {
             name?: string;
             horizon: {
@@ -960,10 +951,12 @@ export interface components {
                  * @description ISO 8601 with a UTC offset.
                  */
                 start: string;
-                /** @enum {integer} */
+                /** @enum {number} */
                 stepMinutes: 5 | 10 | 15 | 30 | 60;
                 /** @description Up to 366 days at 15 min; a plan may cap it lower. */
                 steps: number;
+                /** @description IANA time zone: local time for demand-charge windows, the schedule's timestamps and exports, with daylight saving. Absent: the start's fixed UTC offset. */
+                timeZone?: string;
             };
             /** @description Available supply per step: inline, or an uploaded series (`POST /v1/series`). */
             supply: {
@@ -979,89 +972,531 @@ export interface components {
             };
             /** @description Absent: an island (no import, no export). */
             grid?: {
+                /** @default 0 */
                 importLimitKw?: number;
+                /** @default 0 */
                 exportLimitKw?: number;
+                /** @default 0 */
                 importPrice?: components["schemas"]["PriceSeries"];
+                /** @default 0 */
                 exportPrice?: components["schemas"]["PriceSeries"];
+                /**
+                 * @description Each a price on the highest import in its local-time window (SPEC §5). A window that matches no step is a warning.
+                 * @default []
+                 */
+                demandCharges?: components["schemas"]["DemandCharge"][];
             };
+            /** @default [] */
             units?: components["schemas"]["UnitSpec"][];
+            /** @default [] */
             storage?: components["schemas"]["StorageSpec"][];
+            /** @default [] */
+            stores?: components["schemas"]["StoreSpec"][];
+            /** @description Spinning reserve the online fleet must hold (SPEC §5); absent: none. */
+            reserve?: components["schemas"]["Reserve"];
+            /** @default {} */
             solver?: {
                 /**
                  * @description `auto` solves short horizons whole and rolls on long ones, unless the model falls apart into small independent blocks (a site without storage whose units cannot run at night): then it is solved whole, and exactly, however long the horizon.
+                 * @default auto
                  * @enum {string}
                  */
                 mode?: "auto" | "monolithic" | "rolling";
-                /** @description Rolling horizon: solve `windowSteps`, keep `commitSteps`, carry SOC, on/off state and time in state into the next window. Default: the steps in 36 h and 24 h. Non-final windows credit energy left in storage at what it would fetch later (the median import price over the lookahead, or the island's value of energy), times the discharge efficiency. */
+                /**
+                 * @description Rolling horizon: solve `windowSteps`, keep `commitSteps`, carry SOC, on/off state and time in state into the next window. Default: the steps in 36 h and 24 h. Non-final windows credit energy left in storage at what it would fetch later (the median import price over the lookahead, or the island's value of energy), times the discharge efficiency.
+                 * @default {}
+                 */
                 window?: {
                     windowSteps?: number;
                     commitSteps?: number;
-                    /** @description A horizon of at least twice this many windows is cut into segments of about this many, solved side by side. The state where a segment starts is chosen beforehand by a probe window solved from one commit earlier; the segment before must end in it. When a segment cannot (or a probe finds no schedule) the horizon is solved on from before that seam as one sequence. The cut depends on the spec alone, so the schedule is the same on any machine. 0 keeps one sequence, as does a horizon of fewer than twice this many windows; 1 is refused. Default 32 (a month of daily windows). */
+                    /**
+                     * @description A horizon of at least twice this many windows is cut into segments of about this many, solved side by side. The state where a segment starts is chosen beforehand by a probe window solved from one commit earlier; the segment before must end in it. When a segment cannot (or a probe finds no schedule) the horizon is solved on from before that seam as one sequence. The cut depends on the spec alone, so the schedule is the same on any machine. 0 keeps one sequence, as does a horizon of fewer than twice this many windows; 1 is refused. Default 32 (a month of daily windows).
+                     * @default 32
+                     */
                     segmentWindows?: number;
                     /**
                      * @description `relaxed` (default): the steps a window solves beyond those it keeps have their on/off and exclusivity decisions relaxed to [0, 1] (relax-and-fix): they only value the state the kept steps leave. The kept steps are always integral. `integer` solves the whole window as a MIP (slower; on the benchmark sites it changed the objective by under 0.01 %).
+                     * @default relaxed
                      * @enum {string}
                      */
                     lookahead?: "relaxed" | "integer";
                 };
                 /** @description Wall-clock limit for the whole run (all rolling windows together). Default: 60 s, or steps ÷ 60 seconds on longer horizons (a 15-minute year gets 584 s). */
                 timeLimitSeconds?: number;
-                /** @description Relative MIP gap; default 0.0001. */
+                /**
+                 * @description Relative MIP gap; default 0.0001.
+                 * @default 0.0001
+                 */
                 mipGap?: number;
+                /** @default {} */
                 reductions?: components["schemas"]["Reductions"];
             };
         };
         /** @description Each formulation technique can be switched off; none changes the optimum. All default to true. */
         Reductions: {
-            /** @description On/off binaries only at steps where a unit can run at all. */
+            /**
+             * @description On/off binaries only at steps where a unit can run at all.
+             * @default true
+             */
             sparseSets?: boolean;
-            /** @description Every big-M the smallest valid bound (a rating, a per-step reachable power). */
+            /**
+             * @description Every big-M the smallest valid bound (a rating, a per-step reachable power).
+             * @default true
+             */
             tightBigM?: boolean;
-            /** @description Internal power and money units (powers of ten) that keep coefficients near 1. */
+            /**
+             * @description Internal power and money units (powers of ten) that keep coefficients near 1.
+             * @default true
+             */
             scaling?: boolean;
-            /** @description No charge/discharge or import/export binary where doing both at once can never pay. */
+            /**
+             * @description No charge/discharge or import/export binary where doing both at once can never pay.
+             * @default true
+             */
             relaxExclusivity?: boolean;
-            /** @description Solve the parts of a model that no constraint links separately and in parallel: with no storage, steps where sparse sets leave every unit off for at least its minimum down time separate the horizon into independent blocks. Their optima add up to the optimum. */
+            /**
+             * @description Solve the parts of a model that no constraint links separately and in parallel: with no storage, steps where sparse sets leave every unit off for at least its minimum down time separate the horizon into independent blocks. Their optima add up to the optimum.
+             * @default true
+             */
             independentBlocks?: boolean;
         };
-        /** @description One value per step (length = `horizon.steps`), each ≥ 0. */
-        KwSeries: number[];
-        /** @description One price for every step, or one per step. */
-        PriceSeries: number | number[];
-        UnitSpec: {
+        Reserve: {
+            /** @description Spinning reserve to hold: one figure, or one per step. */
+            upKw: number | number[];
+            /** @description Money per kWh of reserve short; absent: the reserve is hard. */
+            shortfallPenaltyPerKwh?: number;
+        };
+        /** @description A store of a product other than electricity (fuel, water, hydrogen, heat) that units produce into or consume from. */
+        StoreSpec: {
             id: components["schemas"]["AssetId"];
-            /** @enum {string} */
-            kind: "flexible-load" | "generator";
-            ratingKw: number;
-            /** @description Default 0; at most ratingKw. */
-            minStableKw?: number;
-            /** @description Flexible loads; default 0. */
-            valuePerKwh?: number;
-            /** @description Generators; default 0. */
-            costPerKwh?: number;
-            startupCost?: number;
-            minUpSteps?: number;
-            minDownSteps?: number;
-            /** @description Default: off for longer than any minimum. */
-            initial?: {
-                on: boolean;
-                stepsInState?: number;
-            };
+            /** @description A label for people and exports, e.g. "hydrogen". */
+            product?: string;
+            /** @description The unit of the level and flows, e.g. "kg" or "m3". */
+            unit?: string;
+            capacity: number;
+            /** @default 0 */
+            min?: number;
+            initial: number;
+            /** @description Level the store must at least end with; absent: no target. */
+            final?: number;
+            /**
+             * @description Drawn every hour, in the unit per hour: one figure, or one per step.
+             * @default 0
+             */
+            demandPerHour?: number | number[];
+            /**
+             * @description Fraction of the level lost per hour.
+             * @default 0
+             */
+            lossPerHour?: number;
+            /** @description Money per unit of demand not met; absent: the demand is hard. */
+            shortfallPenaltyPerUnit?: number;
+            /**
+             * @description Excess product may be discarded at no value.
+             * @default false
+             */
+            spillAllowed?: boolean;
         };
         StorageSpec: {
             id: components["schemas"]["AssetId"];
             capacityKwh: number;
             maxChargeKw: number;
             maxDischargeKw: number;
+            /** @default 1 */
             chargeEfficiency?: number;
+            /** @default 1 */
             dischargeEfficiency?: number;
+            /** @default 0 */
             minSocKwh?: number;
             initialSocKwh: number;
             /** @description Absent: no target. */
             finalSocKwh?: number;
+            /** @default 0 */
             cycleCostPerKwh?: number;
+            /**
+             * @description Never charged from the grid: import serves only the site load, flexible loads and other batteries.
+             * @default false
+             */
+            chargeFromSupplyOnly?: boolean;
+            /**
+             * @description Counts towards `reserve` by its unused discharge and the charging it can stop.
+             * @default true
+             */
+            providesReserve?: boolean;
+        };
+        UnitSpec: {
+            id: components["schemas"]["AssetId"];
+            /** @enum {string} */
+            kind: "flexible-load" | "generator";
+            ratingKw: number;
+            /**
+             * @description Default 0; at most ratingKw.
+             * @default 0
+             */
+            minStableKw?: number;
+            /** @description Flexible loads; default 0. `valueCurve` replaces it. */
+            valuePerKwh?: number;
+            /** @description Generators; default 0. `costCurve` replaces it. */
+            costPerKwh?: number;
+            /**
+             * @description Paid every hour the unit is on, at any output (idling fuel, auxiliaries).
+             * @default 0
+             */
+            noLoadCostPerHour?: number;
+            /** @description Generators: the incremental cost of each slice of output from 0 kW (the previous slice's upToKw) to its upToKw. Costs must not fall from one slice to the next (a convex curve) and the last upToKw is the rating. */
+            costCurve?: {
+                upToKw: number;
+                costPerKwh: number;
+            }[];
+            /** @description Flexible loads: the incremental value of each slice of consumption from 0 kW. Values must not rise from one slice to the next (a concave curve) and the last upToKw is the rating. */
+            valueCurve?: {
+                upToKw: number;
+                valuePerKwh: number;
+            }[];
+            /**
+             * @description A number, or hot and cold start costs (`cold ≥ hot`). A unit off since forever starts cold.
+             * @default 0
+             */
+            startupCost?: number | {
+                hot: number;
+                cold: number;
+                /** @description A start after at most this many steps off is hot; one more step off makes it cold. */
+                coldAfterSteps: number;
+            };
+            /** @default 1 */
+            minUpSteps?: number;
+            /** @default 1 */
+            minDownSteps?: number;
+            /** @description Output may rise by at most this × stepMinutes per step; a start may reach max(minStableKw, that) in its first step. */
+            rampUpKwPerMin?: number;
+            /** @description Output may fall by at most this × stepMinutes per step; a stop may leave from at most max(minStableKw, that). */
+            rampDownKwPerMin?: number;
+            /**
+             * @description Default: off forever.
+             * @default {
+             *       "on": false
+             *     }
+             */
+            initial?: {
+                on: boolean;
+                /** @description Steps the unit has already been in that state before step 0, in the other state before that; absent: forever. */
+                stepsInState?: number;
+                /** @description Output at step −1 of a unit that is on; the ramp limits apply from it. Absent: no ramp limit at step 0. */
+                powerKw?: number;
+            };
+            /** @description Counts towards `reserve`: a generator by its headroom, a flexible load by backing off. Default: true for generators. */
+            providesReserve?: boolean;
+            /** @description Puts `perKwh` units of a store's product into it per kWh of its power. */
+            produces?: components["schemas"]["StoreLink"];
+            /** @description Takes `perKwh` units of a store's product from it per kWh of its power. */
+            consumes?: components["schemas"]["StoreLink"];
+        };
+        StoreLink: {
+            /** @description The id of an entry of `stores`. */
+            store: components["schemas"]["AssetId"];
+            /** @description Units of the store's product per kWh of the unit's power. */
+            perKwh: number;
+        };
+        DemandCharge: {
+            id: components["schemas"]["AssetId"];
+            /** @description Money per kW of the highest import in the window, over this horizon. */
+            pricePerKw: number;
+            /**
+             * @description Which steps set the peak, by the local time of each step's start. Absent: every step.
+             * @default {}
+             */
+            window?: {
+                /**
+                 * @description ISO weekdays (1 = Monday … 7 = Sunday) of the step's own local date; default every day.
+                 * @default [
+                 *       1,
+                 *       2,
+                 *       3,
+                 *       4,
+                 *       5,
+                 *       6,
+                 *       7
+                 *     ]
+                 */
+                daysOfWeek?: number[];
+                /**
+                 * @description Local time, inclusive.
+                 * @default 00:00
+                 */
+                from?: string;
+                /**
+                 * @description Local time, exclusive. "00:00"–"24:00" is the whole day; `from` after `to` wraps past midnight; equal is empty.
+                 * @default 24:00
+                 */
+                to?: string;
+            };
+            /**
+             * @description The peak already set this billing period: the charge pays only for import above it.
+             * @default 0
+             */
+            existingPeakKw?: number;
         };
         AssetId: string;
+        /** @description One price for every step, or one per step. */
+        PriceSeries: number | number[];
+        /** @description One value per step (length = `horizon.steps`), each ≥ 0. */
+        KwSeries: number[];
+        /** @description A run. `status` is the state machine (queued → running → succeeded | failed | cancelled); `outcome` what the solver found (optimal | feasible | infeasible | no-solution). A run that ends infeasible or without a solution is `failed` with its result and diagnosis. Once finished, the result of SPEC §3 (`objective`, `kpis`, `schedule`, `model`, `warnings`) is included at the top level (lists leave it out). */
+        Run: {
+            /** Format: uuid */
+            id: string;
+            name: string | null;
+            status: components["schemas"]["RunStatus"];
+            outcome: components["schemas"]["SolveOutcome"] | null;
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            queuedAt: string;
+            /** Format: date-time */
+            startedAt: string | null;
+            /** Format: date-time */
+            finishedAt: string | null;
+            /** Format: date-time */
+            cancelRequestedAt: string | null;
+            steps: number;
+            units: number;
+            progress: {
+                windowsDone: number;
+                windowsTotal: number | null;
+                percent: number;
+            };
+            /** @description How many times a worker has taken the run (more than 1 only after a worker crashed). */
+            attempts: number;
+            solverSeconds: number | null;
+            error: {
+                /** @enum {string} */
+                code: "infeasible" | "no-solution" | "time-limit" | "solver-error" | "invalid-spec" | "cancelled" | "worker-lost";
+                message: string;
+            } | null;
+            links: {
+                self: string;
+                spec: string;
+                schedule: string;
+                cancel: string;
+                deliveries: string;
+            };
+            objective?: {
+                /** @description The SPEC.md §2 objective evaluated on the returned schedule; null when there is no schedule. */
+                value: number | null;
+                /** @description The solver's dual bound (monolithic only); null when unknown. */
+                bound: number | null;
+                /** @description Relative MIP gap; null when unknown. */
+                gap: number | null;
+            };
+            /** @description null when there is no schedule (infeasible, no-solution). */
+            kpis?: components["schemas"]["Kpis"] | null;
+            schedule?: components["schemas"]["Schedule"] | null;
+            model?: components["schemas"]["ModelReport"];
+            warnings?: components["schemas"]["ResultWarning"][];
+        };
+        ResultWarning: {
+            code: string;
+            message: string;
+            /** @description RFC 6901 pointer into the spec. */
+            pointer?: string;
+            steps?: {
+                from: number;
+                /** @description Inclusive. */
+                to: number;
+            }[];
+        };
+        /** @description The formulation report. Counts are summed over every window solved (seam probes included); coefficient ranges are after scaling, across all windows; big-M values in kW, the largest per place. */
+        ModelReport: {
+            /** @enum {string} */
+            mode: "monolithic" | "rolling";
+            windows: {
+                /**
+                 * @description `window`: a model whose first `committedSteps` steps are kept. `seam-probe`: a window solved only to choose the state where a parallel segment of the rolling horizon starts; it keeps no steps.
+                 * @enum {string}
+                 */
+                kind: "window" | "seam-probe";
+                fromStep: number;
+                /** @description Last step of the window (inclusive). */
+                toStep: number;
+                committedSteps: number;
+                outcome: components["schemas"]["SolveOutcome"];
+                gap: number | null;
+                /** @description Independent parts the model was solved in (reduction independentBlocks). */
+                blocks: number;
+                /** @description Solver time, blocks summed; time waiting for a free solver thread is not counted. */
+                solveSeconds: number;
+            }[];
+            variables: number;
+            binaries: number;
+            binariesPruned: number;
+            constraints: number;
+            nonzeros: number;
+            /** @description [smallest, largest] absolute non-zero value of each family, or null. */
+            coefficientRange: {
+                matrix: components["schemas"]["CoefficientSpan"];
+                objective: components["schemas"]["CoefficientSpan"];
+                bounds: components["schemas"]["CoefficientSpan"];
+                rhs: components["schemas"]["CoefficientSpan"];
+            };
+            /** @description Every big-M in kW (unscaled); one entry per place, the largest value over steps. */
+            bigM: {
+                where: string;
+                value: number;
+            }[];
+            /** @description The formulation techniques the spec left switched on. */
+            reductions: {
+                /** @description On/off binaries only at steps where a unit can run at all. */
+                sparseSets: boolean;
+                /** @description Every big-M the smallest valid bound (a rating, a per-step reachable power). */
+                tightBigM: boolean;
+                /** @description Internal power and money units (powers of ten) that keep coefficients near 1. */
+                scaling: boolean;
+                /** @description No charge/discharge or import/export binary where doing both at once can never pay. */
+                relaxExclusivity: boolean;
+                /** @description Solve the parts of a model that no constraint links separately and in parallel: with no storage, steps where sparse sets leave every unit off for at least its minimum down time separate the horizon into independent blocks. Their optima add up to the optimum. */
+                independentBlocks: boolean;
+            };
+            /** @description Sequences of rolling windows solved side by side (1: one sequence, or monolithic). */
+            segments: number;
+            /** @description The internal units chosen by `scaling` (1 kW, 1 money unit and 1 store unit when off); `stores` per store, in its unit. */
+            scale: {
+                powerKw: number;
+                money: number;
+                stores: {
+                    [key: string]: number;
+                };
+            };
+            buildSeconds: number;
+            /** @description Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time. */
+            solveSeconds: number;
+            solver: {
+                name: string;
+                version: string;
+            };
+        };
+        /** @description [smallest, largest] absolute non-zero value; null when the model has no such coefficient. */
+        CoefficientSpan: [
+            number,
+            number
+        ] | null;
+        /** @description Per-step values; `timestamps` are the starts of the steps in local time (the spec's `horizon.timeZone`, or the start's offset). Advisory — an operator approves setpoints. */
+        Schedule: {
+            /** @description Start of each step, ISO 8601 with the local offset (horizon.timeZone's, or the start's own). */
+            timestamps: string[];
+            supplyUsedKw: number[];
+            curtailedKw: number[];
+            unservedKw: number[];
+            grid: {
+                importKw: number[];
+                exportKw: number[];
+            };
+            units: {
+                [key: string]: {
+                    /** @description 0 or 1 per step. */
+                    on: number[];
+                    powerKw: number[];
+                    /** @description Spinning reserve held per step (headroom); present when the spec requires reserve and this asset provides it. */
+                    reserveKw?: number[];
+                };
+            };
+            storage: {
+                [key: string]: {
+                    chargeKw: number[];
+                    dischargeKw: number[];
+                    /** @description State of charge at the end of each step. */
+                    socKwh: number[];
+                    /** @description Spinning reserve held per step (headroom); present when the spec requires reserve and this asset provides it. */
+                    reserveKw?: number[];
+                };
+            };
+            stores: {
+                [key: string]: {
+                    /** @description Level at the end of each step, in the store's unit. */
+                    level: number[];
+                    /** @description Demand not met per step, in the store's unit per hour. */
+                    shortfall: number[];
+                    /** @description Product discarded per step, in the store's unit per hour. */
+                    spill: number[];
+                };
+            };
+            /** @description Spinning reserve per step; null when the spec has no reserve requirement. */
+            reserve: {
+                requiredKw: number[];
+                /** @description What the units and batteries that provide reserve hold: their headroom, summed. */
+                providedKw: number[];
+                shortfallKw: number[];
+            } | null;
+            /** @description Marginal values from the LP with every on/off and exclusivity decision fixed at the schedule’s (the duals of the energy balance and of each store’s level): what one more kWh delivered to the site, or one more unit put into a store, is worth at that step, in money per kWh (per store unit). null where no price is known. */
+            marginalValues: {
+                energyPerKwh: (number | null)[];
+                stores: {
+                    [key: string]: (number | null)[];
+                };
+            };
+        };
+        Kpis: {
+            suppliedKwh: number;
+            curtailedKwh: number;
+            importKwh: number;
+            exportKwh: number;
+            unservedKwh: number;
+            /** @description Spinning reserve short of the requirement, in kWh (0 without a requirement). */
+            reserveShortfallKwh: number;
+            units: {
+                [key: string]: {
+                    energyKwh: number;
+                    starts: number;
+                    /** @description Starts after more than `coldAfterSteps` steps off (0 for a unit with one start cost: every start counts as hot). */
+                    coldStarts: number;
+                    onSteps: number;
+                };
+            };
+            storage: {
+                [key: string]: {
+                    chargedKwh: number;
+                    dischargedKwh: number;
+                    finalSocKwh: number;
+                };
+            };
+            stores: {
+                [key: string]: {
+                    produced: number;
+                    consumed: number;
+                    /** @description The demand met: the demand less the shortfall. */
+                    delivered: number;
+                    shortfall: number;
+                    spilled: number;
+                    finalLevel: number;
+                };
+            };
+            demandCharges: {
+                [key: string]: {
+                    /** @description The highest import in the charge's window, at least its existingPeakKw. */
+                    peakKw: number;
+                    /** @description pricePerKw × (peakKw − existingPeakKw). */
+                    cost: number;
+                };
+            };
+            objectiveTerms: components["schemas"]["ObjectiveTerms"];
+        };
+        /** @description Where the money goes: each a signed contribution to `objective.value` (value positive, cost negative); together they sum to it. */
+        ObjectiveTerms: {
+            /** @description Export revenue − import cost + flexible loads' value − generators' energy cost (their curves). */
+            energy: number;
+            noLoad: number;
+            starts: number;
+            demandCharges: number;
+            /** @description Unserved load, reserve shortfall and store shortfall, each at its penalty. */
+            penalties: number;
+            cycleCost: number;
+        };
+        /**
+         * @description `no-solution`: the time limit was hit before any feasible schedule was found.
+         * @enum {string}
+         */
+        SolveOutcome: "optimal" | "feasible" | "infeasible" | "no-solution";
+        /** @enum {string} */
+        RunStatus: "queued" | "running" | "succeeded" | "failed" | "cancelled";
         SpecValidation: {
             /** @constant */
             valid: true;
@@ -1079,151 +1514,6 @@ export interface components {
                 };
                 constraints?: number;
                 nonzeros?: number;
-            };
-        };
-        /** @description The formulation report. Counts are summed over every window solved (seam probes included); coefficient ranges are after scaling, across all windows; big-M values in kW, the largest per place. */
-        ModelReport: {
-            /** @enum {string} */
-            mode?: "monolithic" | "rolling";
-            /** @description Sequences of rolling windows solved side by side (1: one sequence, or monolithic). */
-            segments?: number;
-            windows?: {
-                /**
-                 * @description A seam probe chooses the state where a parallel segment starts and keeps no steps.
-                 * @enum {string}
-                 */
-                kind?: "window" | "seam-probe";
-                fromStep?: number;
-                /** @description Last step of the window (inclusive). */
-                toStep?: number;
-                committedSteps?: number;
-                /** @enum {string} */
-                outcome?: "optimal" | "feasible" | "infeasible" | "no-solution";
-                gap?: number | null;
-                /** @description Independent parts the model was solved in (reduction independentBlocks). */
-                blocks?: number;
-                /** @description Solver time, blocks summed; time waiting for a free solver thread is not counted. */
-                solveSeconds?: number;
-            }[];
-            variables?: number;
-            binaries?: number;
-            binariesPruned?: number;
-            constraints?: number;
-            nonzeros?: number;
-            /** @description [smallest, largest] absolute non-zero value of each family, or null. */
-            coefficientRange?: {
-                matrix?: number[] | null;
-                objective?: number[] | null;
-                bounds?: number[] | null;
-                rhs?: number[] | null;
-            };
-            bigM?: {
-                where?: string;
-                value?: number;
-            }[];
-            reductions?: components["schemas"]["Reductions"];
-            scale?: {
-                powerKw?: number;
-                money?: number;
-            };
-            buildSeconds?: number;
-            /** @description Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time. */
-            solveSeconds?: number;
-            solver?: {
-                name?: string;
-                version?: string;
-            };
-        };
-        ResultWarning: {
-            code: string;
-            message: string;
-            /** @description RFC 6901 pointer into the spec. */
-            pointer?: string;
-            steps?: {
-                from?: number;
-                to?: number;
-            }[];
-        };
-        /** @enum {string} */
-        RunStatus: "queued" | "running" | "succeeded" | "failed" | "cancelled";
-        /**
-         * @description A run. `status` is the state machine (queued → running → succeeded | failed | cancelled);
-         *     `outcome` what the solver found (optimal | feasible | infeasible | no-solution). A run that
-         *     ends infeasible or without a solution is `failed` with its result and diagnosis. Once
-         *     finished, the result of SPEC §3 (`objective`, `kpis`, `schedule`, `model`, `warnings`) is
-         *     included at the top level (lists leave it out).
-         */
-        Run: {
-            /** Format: uuid */
-            id: string;
-            name?: string | null;
-            status: components["schemas"]["RunStatus"];
-            /** @enum {string|null} */
-            outcome?: "optimal" | "feasible" | "infeasible" | "no-solution" | null;
-            /** Format: date-time */
-            createdAt: string;
-            /** Format: date-time */
-            queuedAt?: string;
-            /** Format: date-time */
-            startedAt?: string | null;
-            /** Format: date-time */
-            finishedAt?: string | null;
-            /** Format: date-time */
-            cancelRequestedAt?: string | null;
-            steps?: number;
-            units?: number;
-            progress: {
-                windowsDone?: number;
-                windowsTotal?: number | null;
-                percent?: number;
-            };
-            /** @description How many times a worker has taken the run (more than 1 only after a worker crashed). */
-            attempts?: number;
-            solverSeconds?: number | null;
-            error?: {
-                /** @enum {string} */
-                code?: "infeasible" | "no-solution" | "time-limit" | "solver-error" | "invalid-spec" | "cancelled" | "worker-lost";
-                message?: string;
-            } | null;
-            links: {
-                self?: string;
-                spec?: string;
-                schedule?: string;
-                cancel?: string;
-                deliveries?: string;
-            };
-            objective?: {
-                value?: number | null;
-                bound?: number | null;
-                gap?: number | null;
-            };
-            kpis?: Record<string, never> | null;
-            schedule?: components["schemas"]["Schedule"] | null;
-            model?: components["schemas"]["ModelReport"];
-            warnings?: components["schemas"]["ResultWarning"][];
-        };
-        /** @description Per-step values; `timestamps` are the starts of the steps with the spec's offset. Advisory — an operator approves setpoints. */
-        Schedule: {
-            timestamps?: string[];
-            supplyUsedKw?: number[];
-            curtailedKw?: number[];
-            unservedKw?: number[];
-            grid?: {
-                importKw?: number[];
-                exportKw?: number[];
-            };
-            units?: {
-                [key: string]: {
-                    on?: number[];
-                    powerKw?: number[];
-                };
-            };
-            storage?: {
-                [key: string]: {
-                    chargeKw?: number[];
-                    dischargeKw?: number[];
-                    socKwh?: number[];
-                };
             };
         };
         SeriesSummary: {
@@ -1332,17 +1622,17 @@ export interface components {
              * @default kW
              * @enum {string}
              */
-            powerUnit: "kW" | "MW";
+            powerUnit?: "kW" | "MW";
             /**
              * @default utc
              * @enum {string}
              */
-            timestamps: "utc" | "offset";
+            timestamps?: "utc" | "offset";
             /**
              * @default ,
              * @enum {string}
              */
-            delimiter: "," | ";" | "tab" | "|";
+            delimiter?: "," | ";" | "tab" | "|";
             tagMap?: components["schemas"]["TagMap"];
         };
         ExportProfile: {

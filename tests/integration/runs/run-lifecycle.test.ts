@@ -5,6 +5,7 @@ import { parse } from 'csv-parse/sync';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { exampleSites } from '@gridwright/shared/examples';
+import { runSchema } from '@gridwright/shared/run-result';
 import { seedDemoRuns } from '../../../api/src/services/demo-runs';
 import { startWorkers } from '../../../api/src/services/workers';
 import { createTenantWithKey } from '../../support/tenants';
@@ -45,6 +46,9 @@ describe('a run through the queue', () => {
     expect(done.progress.percent).toBe(100);
     // One window, reported even when the solve ends before the progress poll first writes.
     expect(done.progress).toMatchObject({ windowsDone: 1, windowsTotal: 1 });
+    // What the API sends is what openapi.yaml's generated Run schema says, queued and finished.
+    expect(runSchema.safeParse(res.body).error).toBeUndefined();
+    expect(runSchema.safeParse(done).error).toBeUndefined();
     const spec = await request(t.app).get(`/v1/runs/${runId}/spec`).set(bearer(key)).expect(200);
     expect(spec.body).toMatchObject({ name: 'Test yard', horizon: smallSpec().horizon });
     const log = await request(t.app).get(`/v1/runs/${runId}/log`).set(bearer(key)).expect(200);

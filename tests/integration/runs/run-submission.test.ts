@@ -1,5 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { validateSiteSpec } from '@gridwright/shared/site-spec';
 import { endDeadLetteredRun } from '../../../api/src/runs/runner';
 import { createTenantWithKey } from '../../support/tenants';
 import { startTestApp, type TestApp } from '../../support/test-app';
@@ -63,7 +64,11 @@ describe('submitting and reading runs', () => {
       expect(res.status).toBe(400);
       expect(res.headers['content-type']).toMatch(/application\/problem\+json/);
       const pointers = res.body.errors.map((e: { pointer: string }) => e.pointer);
-      expect(pointers).toEqual(expect.arrayContaining(['/horizon/start', '/horizon/stepMinutes', '/horizon/steps', '/units/0/kind', '/units/0/ratingKw']));
+      expect(pointers).toEqual(expect.arrayContaining(['/horizon/start', '/horizon/stepMinutes', '/horizon/steps', '/units/0/kind', '/units/0/ratingKw', '/extra']));
+      // One validator owns the spec: the API answers exactly what the shared one (the console's too) says.
+      const shared = validateSiteSpec(bad);
+      expect(shared.ok).toBe(false);
+      if (!shared.ok) expect(res.body.errors).toEqual(shared.errors);
     }
   });
 

@@ -1,5 +1,7 @@
-import type { RunStatus, SolveOutcome } from '@gridwright/shared/run-result';
 import { Column, Entity, PrimaryColumn } from 'typeorm';
+import type { RunError, RunStatus, SolveOutcome } from '@gridwright/shared/run-result';
+
+export type { RunStatus };
 
 /** One submitted site spec and its way through the queue; the row is the truth the API reads. */
 @Entity('runs')
@@ -26,7 +28,7 @@ export class Run {
   @Column('integer') attempts!: number;
   @Column('text', { name: 'worker_id', nullable: true }) workerId!: string | null;
   @Column('jsonb', { nullable: true }) result!: Record<string, unknown> | null;
-  @Column('jsonb', { nullable: true }) error!: { code: string; message: string } | null;
+  @Column('jsonb', { nullable: true }) error!: RunError | null;
   @Column('text', { name: 'solver_log' }) solverLog!: string;
   @Column('double precision', { name: 'solver_seconds', nullable: true }) solverSeconds!: number | null;
 }
