@@ -213,8 +213,12 @@ const modelReportSchema = z
     reductions: reductionsSchema.meta({ description: 'The formulation techniques the spec left switched on.' }),
     segments: count.meta({ description: 'Sequences of rolling windows solved side by side (1: one sequence, or monolithic).' }),
     scale: z
-      .object({ powerKw: z.number(), money: z.number(), stores: z.record(z.string(), z.number()) })
-      .meta({ description: "The internal units chosen by `scaling` (1 kW, 1 money unit and 1 store unit when off); `stores` per store, in its unit." }),
+      .object({ powerKw: z.number(), money: z.number(), stores: z.record(z.string(), z.number()), demandPeakKw: z.number() })
+      .meta({
+        description:
+          'The internal units chosen by `scaling` (1 when off): power, money, each store in its own unit, and demand-charge ' +
+          'peaks (a power of ten below the power unit, so a kW of peak and a kWh of energy have prices of similar size).',
+      }),
     buildSeconds: z.number(),
     solveSeconds: z
       .number()

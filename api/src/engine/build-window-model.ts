@@ -175,7 +175,8 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     const dp = plan.demandCharges[c];
     if (!dp.steps.length) return;
     // −price·(peak − peak so far): the peak so far is paid already, so it is a constant here.
-    cols.peaks[c] = a.col(ColKind.DemandPeak, dp.steps[0], c, (-charge.pricePerKw * P) / M, dp.floorKw / P, dp.capKw / P);
+    const D = scales.demandPeakKw;
+    cols.peaks[c] = a.col(ColKind.DemandPeak, dp.steps[0], c, (-charge.pricePerKw * D) / M, dp.floorKw / D, dp.capKw / D);
     a.objectiveOffset += (charge.pricePerKw * dp.floorKw) / M;
   });
 
@@ -254,7 +255,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       if (cols.imp[k] < 0) continue;
       a.row(RowKind.DemandChargePeak, k, c, -Infinity, 0);
       a.entry(cols.imp[k], 1);
-      a.entry(cols.peaks[c], -1);
+      a.entry(cols.peaks[c], -scales.demandPeakKw / P);
     }
   });
 

@@ -61,7 +61,7 @@ function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, sol
     bigM: [],
     reductions: { ...spec.solver.reductions },
     segments: 1,
-    scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])) },
+    scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])), demandPeakKw: 1 },
     buildSeconds: 0,
     solveSeconds: 0,
     solver: { name: solver.name, version: solver.version },
@@ -101,7 +101,12 @@ function addWindows(spec: ResolvedSiteSpec, report: ModelReport, records: Window
     report.nonzeros += r.nonzeros;
     report.buildSeconds += r.buildSeconds;
     report.solveSeconds += r.solveSeconds;
-    report.scale = { powerKw: r.scale.powerKw, money: r.scale.money, stores: Object.fromEntries(spec.stores.map((s, j) => [s.id, r.scale.stores[j]])) };
+    report.scale = {
+      powerKw: r.scale.powerKw,
+      money: r.scale.money,
+      stores: Object.fromEntries(spec.stores.map((s, j) => [s.id, r.scale.stores[j]])),
+      demandPeakKw: r.scale.demandPeakKw,
+    };
     ranges = mergeRanges(ranges, r.ranges);
     mergeBigM(bigM, r.bigM);
   }

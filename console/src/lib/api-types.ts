@@ -1358,13 +1358,14 @@ export interface components {
             };
             /** @description Sequences of rolling windows solved side by side (1: one sequence, or monolithic). */
             segments: number;
-            /** @description The internal units chosen by `scaling` (1 kW, 1 money unit and 1 store unit when off); `stores` per store, in its unit. */
+            /** @description The internal units chosen by `scaling` (1 when off): power, money, each store in its own unit, and demand-charge peaks (a power of ten below the power unit, so a kW of peak and a kWh of energy have prices of similar size). */
             scale: {
                 powerKw: number;
                 money: number;
                 stores: {
                     [key: string]: number;
                 };
+                demandPeakKw: number;
             };
             buildSeconds: number;
             /** @description Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time. */
