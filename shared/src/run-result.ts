@@ -51,6 +51,7 @@ const storeKpisSchema = z
   .object({
     produced: z.number(),
     consumed: z.number(),
+    inflow: z.number().meta({ description: 'What arrived from outside (inflowPerHour).' }),
     delivered: z.number().meta({ description: 'The demand met: the demand less the shortfall.' }),
     shortfall: z.number(),
     spilled: z.number(),

@@ -283,6 +283,14 @@ const storeSchema = z
       .union([nonNegative, z.array(nonNegative).min(1).max(MAX_STEPS)])
       .default(0)
       .meta({ description: 'Drawn every hour, in the unit per hour: one figure, or one per step.' }),
+    inflowPerHour: z
+      .union([nonNegative, z.array(nonNegative).min(1).max(MAX_STEPS)])
+      .default(0)
+      .meta({
+        description:
+          'Extension: product arriving from outside every hour, in the unit per hour (a fuel delivery, a river\'s inflow): one ' +
+          'figure, or one per step. Default 0.',
+      }),
     lossPerHour: z.number().min(0).max(1).default(0).meta({ description: 'Fraction of the level lost per hour.' }),
     shortfallPenaltyPerUnit: nonNegativeMoney.optional().meta({ description: 'Money per unit of demand not met; absent: the demand is hard.' }),
     spillAllowed: z.boolean().default(false).meta({ description: 'Excess product may be discarded at no value.' }),
@@ -471,6 +479,7 @@ function crossFieldIssues(spec: BaseSpec): SpecIssue[] {
       issues.push({ pointer: `${at}/final`, message: `${s.final} must lie within [min ${s.min}, capacity ${s.capacity}]` });
     }
     lengthIs(`${at}/demandPerHour`, s.demandPerHour);
+    lengthIs(`${at}/inflowPerHour`, s.inflowPerHour);
   });
   const chargeIds = new Map<string, number>();
   spec.grid?.demandCharges.forEach((c, i) => {
@@ -604,6 +613,7 @@ const resolvedStoreSchema = storeSchema.extend({
   /** null: no final target. */
   final: nonNegative.nullable(),
   demandPerHour: z.array(nonNegative),
+  inflowPerHour: z.array(nonNegative),
   /** null: the demand is hard. */
   shortfallPenaltyPerUnit: nonNegativeMoney.nullable(),
 });
@@ -748,6 +758,7 @@ export function resolveDefaults(spec: ValidSiteSpec, availableKw?: number[]): Re
       unit: s.unit ?? null,
       final: s.final ?? null,
       demandPerHour: perStepArray(s.demandPerHour, T),
+      inflowPerHour: perStepArray(s.inflowPerHour, T),
       shortfallPenaltyPerUnit: s.shortfallPenaltyPerUnit ?? null,
     })),
     reserve: spec.reserve ? { upKw: perStepArray(spec.reserve.upKw, T), shortfallPenaltyPerKwh: spec.reserve.shortfallPenaltyPerKwh ?? null } : null,

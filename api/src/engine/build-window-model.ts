@@ -280,9 +280,9 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     const keep = 1 - s.lossPerHour * dh;
     const flow = (dh * P) / Q;
     for (let k = 0; k < n; k++) {
-      // level_k − keep·level_{k−1} − Δh·(produced − consumed + short − spill) = −Δh·demand_k (store units / Q).
+      // level_k − keep·level_{k−1} − Δh·(produced − consumed + short − spill) = Δh·(inflow_k − demand_k) (store units / Q).
       const t = window.from + k;
-      const rhs = (-dh * s.demandPerHour[t]) / Q + (k === 0 ? (keep * start.storeLevels[j]) / Q : 0);
+      const rhs = (dh * (s.inflowPerHour[t] - s.demandPerHour[t])) / Q + (k === 0 ? (keep * start.storeLevels[j]) / Q : 0);
       rows.stores[j][k] = a.row(RowKind.StoreLevel, k, j, rhs, rhs);
       a.entry(c.level[k], 1);
       if (k > 0) a.entry(c.level[k - 1], -keep);
@@ -305,7 +305,7 @@ function spillRateBound(plan: WindowPlan, j: number, t: number): number {
   const { spec, dh } = plan;
   let made = 0;
   for (const u of spec.units) if (u.produces?.store === j) made += u.produces.perKwh * u.ratingKw;
-  return spec.stores[j].capacity / dh + made + spec.stores[j].demandPerHour[t];
+  return spec.stores[j].capacity / dh + made + spec.stores[j].inflowPerHour[t];
 }
 
 function maxWhere(values: Float64Array, present: Int32Array): number {

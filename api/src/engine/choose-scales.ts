@@ -69,6 +69,7 @@ export function chooseScales(spec: ResolvedSiteSpec, enabled: boolean): Scales {
       s.capacity,
       s.min,
       maxOf(s.demandPerHour) * dh,
+      maxOf(s.inflowPerHour) * dh,
       ...spec.units.flatMap((u) => [u.produces, u.consumes].filter((l) => l?.store === j).map((l) => l!.perKwh * powerKw * dh)),
     ]),
   );

@@ -77,7 +77,7 @@ export function extractWindowSchedule(plan: WindowPlan, built: BuiltModel, x: Fl
       };
       const shortfall = rate(c.shortfall[k], s.demandPerHour[t]);
       const spill = rate(c.spill[k], Infinity);
-      let flow = shortfall - spill - s.demandPerHour[t];
+      let flow = shortfall - spill - s.demandPerHour[t] + s.inflowPerHour[t];
       spec.units.forEach((u, i) => {
         if (u.produces?.store === j) flow += u.produces.perKwh * out.units[i].power[t];
         if (u.consumes?.store === j) flow -= u.consumes.perKwh * out.units[i].power[t];

@@ -2,7 +2,7 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { chooseScales, type Scales } from './choose-scales';
 import { demandChargeSteps } from './demand-charge-steps';
 import { storeLevelFloors } from './store-floors';
-import { islandEnergyValue, lookaheadEnergyValue, storeProductValue } from './terminal-values';
+import { islandEnergyValue, lookaheadEnergyValue, storeProductValues } from './terminal-values';
 import { TINY } from './numerics';
 import { ratingSums, storageStepLimits } from './site-ratings';
 
@@ -161,15 +161,19 @@ export interface SiteFacts {
   /** Per demand charge, 1 at the steps its window covers. */
   chargeSteps: Uint8Array[];
   storeFloors: Float64Array[];
+  /** Per store, what a unit of its product left at a non-final window's end is credited at (storeProductValues). */
+  storeValues: number[];
 }
 
 export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+  const island = spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0;
   return {
     scales: chooseScales(spec, spec.solver.reductions.scaling),
     loose: looseSiteBound(spec),
-    island: spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0,
+    island,
     chargeSteps: demandChargeSteps(spec),
     storeFloors: storeLevelFloors(spec),
+    storeValues: storeProductValues(spec, island),
   };
 }
 
@@ -193,7 +197,7 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const { scales, loose, island, chargeSteps, storeFloors } = facts;
+  const { scales, loose, island, chargeSteps, storeFloors, storeValues } = facts;
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
@@ -358,7 +362,7 @@ export function planWindow(
     scale: scales.stores[j],
     endFloor: Math.min(s.capacity, storeFloors[j][lastStep]),
     endFixed: window.endState ? window.endState.storeLevels[j] : null,
-    terminalValuePerUnit: credits ? storeProductValue(spec, j, energyValue) : 0,
+    terminalValuePerUnit: credits ? storeValues[j] : 0,
   }));
 
   const demandCharges: DemandChargePlan[] = spec.grid.demandCharges.map((_, c) => {

@@ -158,7 +158,7 @@ function firstStepBelowFloor(spec: ResolvedSiteSpec, j: number, floors: Float64A
   const hard = s.shortfallPenaltyPerUnit === null;
   let level = s.initial;
   for (let t = 0; t < floors.length; t++) {
-    level = Math.min(s.capacity, (1 - s.lossPerHour * dh) * level + dh * (production - (hard ? s.demandPerHour[t] : 0)));
+    level = Math.min(s.capacity, (1 - s.lossPerHour * dh) * level + dh * (production + s.inflowPerHour[t] - (hard ? s.demandPerHour[t] : 0)));
     if (level < floors[t] - 1e-9 * Math.max(1, s.capacity)) return t;
   }
   return floors.length - 1;

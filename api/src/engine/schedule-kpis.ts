@@ -54,6 +54,7 @@ export function scheduleKpis(spec: ResolvedSiteSpec, chargeSteps: Uint8Array[], 
           {
             produced,
             consumed,
+            inflow: sum(s.inflowPerHour) * dh,
             delivered: sum(s.demandPerHour) * dh - shortfall,
             shortfall,
             spilled: sum(b.stores[j].spill) * dh,

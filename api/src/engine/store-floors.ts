@@ -20,7 +20,7 @@ export function storeLevelFloors(spec: ResolvedSiteSpec): Float64Array[] {
     let need = Math.max(s.min, s.final ?? s.min);
     for (let t = T - 1; t >= 0; t--) {
       floors[t] = need;
-      const drawn = hard ? s.demandPerHour[t] : 0;
+      const drawn = (hard ? s.demandPerHour[t] : 0) - s.inflowPerHour[t];
       const before = keep > 0 ? (need - dh * (production - drawn)) / keep : need > dh * (production - drawn) ? Infinity : 0;
       need = Math.max(s.min, before);
     }
@@ -36,7 +36,7 @@ export function storeInitialNeed(spec: ResolvedSiteSpec, j: number, floors: Floa
   let production = 0;
   for (const u of spec.units) if (u.produces?.store === j) production += u.produces.perKwh * u.ratingKw;
   const keep = 1 - s.lossPerHour * dh;
-  const drawn = s.shortfallPenaltyPerUnit === null ? s.demandPerHour[0] : 0;
+  const drawn = (s.shortfallPenaltyPerUnit === null ? s.demandPerHour[0] : 0) - s.inflowPerHour[0];
   if (keep <= 0) return floors[0] > dh * (production - drawn) ? Infinity : s.min;
   return Math.max(s.min, (floors[0] - dh * (production - drawn)) / keep);
 }

@@ -46,21 +46,70 @@ export function lookaheadEnergyValue(spec: ResolvedSiteSpec, from: number, steps
 }
 
 /**
- * The value of one unit of a store's product left at a non-final window's end, from the energy it
- * embodies: a producer spends 1/perKwh kWh on it, a consumer turns it into 1/perKwh kWh, each kWh
- * worth `energyValue` (the same estimate storage is credited at). The most either way, since the
- * product can replace that energy later; a shortfall penalty caps it (a unit is never worth more
- * than the penalty it saves). A store linked to no unit only meets its demand from its level, and
- * keeps the penalty's value (or none).
+ * The value of one unit of each store's product left at a non-final window's end: a "water value"
+ * read off the merit order of the whole horizon. The product the horizon needs (its demand, the
+ * final level above the initial one, less what flows in) is made in the cheapest steps the
+ * producers have — each step offering its producers' rating in product at the energy value of that
+ * step divided by their yield — and the dearest of those steps sets the value: product left at a
+ * window's end saves making it there later. A step's energy comes first from supply above the site
+ * load (worth its export price, or nothing where it would be curtailed), then from the grid at the
+ * import price or on an island from generators at the island's value, each as far as it reaches.
+ * A store no unit produces into is valued by what its
+ * consumers turn a unit of it into (the energy it replaces), and a shortfall penalty caps every
+ * value: a unit is never worth more than the penalty it saves. Computed once per spec.
  */
-export function storeProductValue(spec: ResolvedSiteSpec, store: number, energyValue: number): number {
-  let best = 0;
-  for (const u of spec.units) {
-    for (const link of [u.produces, u.consumes]) {
-      if (link && link.store === store) best = Math.max(best, energyValue / link.perKwh);
+export function storeProductValues(spec: ResolvedSiteSpec, island: number): number[] {
+  const dh = spec.horizon.stepMinutes / 60;
+  const T = spec.horizon.steps;
+  return spec.stores.map((store, j) => {
+    const producers = spec.units.filter((u) => u.produces?.store === j);
+    let value = 0;
+    if (producers.length) {
+      let needed = (store.final ?? store.min) - store.initial;
+      for (let t = 0; t < T; t++) needed += dh * (store.demandPerHour[t] - store.inflowPerHour[t]);
+      if (needed > 0) {
+        const offers: { cost: number; units: number }[] = [];
+        // Producers with the best yield take the cheapest energy first.
+        const byYield = producers.slice().sort((a, b) => b.produces!.perKwh - a.produces!.perKwh);
+        const bought = spec.grid.importLimitKw > 0;
+        for (let t = 0; t < T; t++) {
+          const tranches = [
+            { kw: Math.max(0, spec.supply.availableKw[t] - spec.siteLoad.kw[t]), price: spec.grid.exportLimitKw > 0 ? Math.max(0, spec.grid.exportPrice[t]) : 0 },
+            { kw: bought ? spec.grid.importLimitKw : Infinity, price: bought ? spec.grid.importPrice[t] : island },
+          ];
+          for (const u of byYield) {
+            const perKwh = u.produces!.perKwh;
+            // A generator that makes product (heat from a genset) makes it beside power it is paid for.
+            if (u.kind === 'generator') {
+              offers.push({ cost: 0, units: dh * perKwh * u.ratingKw });
+              continue;
+            }
+            let left = u.ratingKw;
+            for (const tranche of tranches) {
+              const kw = Math.min(left, tranche.kw);
+              if (kw <= 0) continue;
+              offers.push({ cost: tranche.price / perKwh, units: dh * perKwh * kw });
+              tranche.kw -= kw;
+              left -= kw;
+            }
+          }
+        }
+        offers.sort((a, b) => a.cost - b.cost);
+        let made = 0;
+        value = offers.length ? offers[offers.length - 1].cost : 0;
+        for (const o of offers) {
+          made += o.units;
+          if (made >= needed) {
+            value = o.cost;
+            break;
+          }
+        }
+      }
+    } else {
+      const energy = island > 0 ? island : Math.max(0, ...spec.grid.importPrice);
+      for (const u of spec.units) if (u.consumes?.store === j) value = Math.max(value, energy / u.consumes.perKwh);
     }
-  }
-  const penalty = spec.stores[store].shortfallPenaltyPerUnit;
-  if (penalty !== null) best = best > 0 ? Math.min(best, penalty) : penalty;
-  return best;
+    const penalty = store.shortfallPenaltyPerUnit;
+    return penalty === null ? value : Math.min(value, penalty);
+  });
 }

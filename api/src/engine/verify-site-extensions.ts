@@ -129,7 +129,7 @@ function verifySupplyOnly(list: ViolationList, tol: Tolerance, spec: ResolvedSit
 }
 
 /**
- * Product stores (SPEC §5): level_t = (1 − loss·Δh)·level_{t−1} + Δh·(produced − consumed − demand
+ * Product stores (SPEC §5): level_t = (1 − loss·Δh)·level_{t−1} + Δh·(produced − consumed + inflow − demand
  * + shortfall − spill), within [min, capacity], at least `final` at the end; shortfall within
  * [0, demand] and 0 when the demand is hard; spill 0 unless allowed. Shortfall pays its penalty.
  */
@@ -149,7 +149,7 @@ function verifyStores(list: ViolationList, spec: ResolvedSiteSpec, schedule: Sch
       seriesOk(list, entry.shortfall, T, `${base}/demandPerHour`, `stores.${s.id}.shortfall`) &&
       seriesOk(list, entry.spill, T, base, `stores.${s.id}.spill`);
     if (!ok || !complete(schedule, spec)) return;
-    let scale = Math.max(s.capacity, ...s.demandPerHour.map((d) => d * dh));
+    let scale = Math.max(s.capacity, ...s.demandPerHour.map((d) => d * dh), ...s.inflowPerHour.map((d) => d * dh));
     for (const u of spec.units) for (const link of [u.produces, u.consumes]) if (link?.store === j) scale = Math.max(scale, link.perKwh * u.ratingKw * dh);
     const tol = new Tolerance(scale);
     const keep = 1 - s.lossPerHour * dh;
@@ -170,7 +170,7 @@ function verifyStores(list: ViolationList, spec: ResolvedSiteSpec, schedule: Sch
         if (u.produces?.store === j) made += u.produces.perKwh * p;
         if (u.consumes?.store === j) made -= u.consumes.perKwh * p;
       }
-      const expected = keep * prev + dh * (made - demand + short - spill);
+      const expected = keep * prev + dh * (made + s.inflowPerHour[t] - demand + short - spill);
       const level = entry.level[t];
       if (!tol.eq(level, expected)) {
         list.add('store-dynamics', `store ${s.id} level at step ${t} is ${fmt(level)}; the previous level and the flows give ${fmt(expected)}`, t, t === 0 ? `${base}/initial` : base);

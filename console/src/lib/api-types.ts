@@ -1085,6 +1085,11 @@ export interface components {
              */
             demandPerHour?: number | number[];
             /**
+             * @description Extension: product arriving from outside every hour, in the unit per hour (a fuel delivery, a river's inflow): one figure, or one per step. Default 0.
+             * @default 0
+             */
+            inflowPerHour?: number | number[];
+            /**
              * @description Fraction of the level lost per hour.
              * @default 0
              */
@@ -1463,6 +1468,8 @@ export interface components {
                 [key: string]: {
                     produced: number;
                     consumed: number;
+                    /** @description What arrived from outside (inflowPerHour). */
+                    inflow: number;
                     /** @description The demand met: the demand less the shortfall. */
                     delivered: number;
                     shortfall: number;
