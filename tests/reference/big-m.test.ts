@@ -87,6 +87,10 @@ function ceilings(spec: ResolvedSiteSpec): Map<string, number> {
     m.set(`${s.id} charge/discharge exclusivity (charge side)`, s.maxChargeKw);
     m.set(`${s.id} charge/discharge exclusivity (discharge side)`, s.maxDischargeKw);
   }
+  // SPEC §5: a generator's reserve headroom is rating·y − p, its M the rating itself; a demand
+  // charge's peak can never exceed the import limit (nor fall below the peak already reached).
+  for (const u of spec.units) if (u.kind === 'generator') m.set(`${u.id} reserve headroom (rating)`, u.ratingKw);
+  for (const c of spec.grid.demandCharges) m.set(`${c.id} demand-charge peak (import limit)`, Math.max(spec.grid.importLimitKw, c.existingPeakKw));
   m.set('grid import/export exclusivity (import side)', spec.grid.importLimitKw);
   m.set('grid import/export exclusivity (export side)', spec.grid.exportLimitKw);
   return m;

@@ -113,6 +113,8 @@ export interface GridPlan {
 
 export interface WindowPlan {
   spec: ResolvedSiteSpec;
+  /** The spec-wide figures the plan was made with. */
+  facts: SiteFacts;
   window: HorizonWindow;
   start: WindowStartState;
   scales: Scales;
@@ -333,6 +335,9 @@ export function planWindow(
     const dischargeM = new Float64Array(n);
     const reserve = new Uint8Array(n);
     const lossless = s.chargeEfficiency * s.dischargeEfficiency >= 1;
+    // Burning energy by charging and discharging at once can make room for charging later, which
+    // counts as reserve; netting the two afterwards would take that reserve away again.
+    const holdsReserve = s.providesReserve && reserveKw.some((r) => r > 0);
     for (let k = 0; k < n; k++) {
       const t = window.from + k;
       chargeM[k] = reductions.tightBigM ? limits[i].charge : loose;
@@ -340,7 +345,7 @@ export function planWindow(
       if (s.providesReserve && reserveKw[k] > 0) reserve[k] = 1;
       if (s.maxChargeKw <= 0 || s.maxDischargeKw <= 0) continue;
       if (k < integerSteps) binariesBefore++;
-      const mustStay = (anySupplyOnly && !s.chargeFromSupplyOnly) || (!lossless && energyCanHaveNegativeValue(spec, t));
+      const mustStay = (anySupplyOnly && !s.chargeFromSupplyOnly) || (!lossless && (holdsReserve || energyCanHaveNegativeValue(spec, t)));
       hasBinary[k] = !reductions.relaxExclusivity || mustStay || forced?.storage[i].has(k) ? 1 : 0;
     }
     return {
@@ -379,7 +384,7 @@ export function planWindow(
   const supplyOnlyCap = new Uint8Array(n);
   if (anySupplyOnly) for (let k = 0; k < n; k++) supplyOnlyCap[k] = grid.importUb[k] > 0 ? 1 : 0;
 
-  return { spec, window, start, scales, dh, units, storage, stores, demandCharges, reserveKw, supplyOnlyCap, grid, binariesBefore, integerSteps };
+  return { spec, facts, window, start, scales, dh, units, storage, stores, demandCharges, reserveKw, supplyOnlyCap, grid, binariesBefore, integerSteps };
 }
 
 /** A unit's ramp limits in kW per step, with the start and stop allowances of SPEC §5; null without any. */

@@ -3,7 +3,6 @@ import type { ResultWarning } from '@gridwright/shared/run-result';
 import { TINY, tinyAt } from './numerics';
 import { ratingSums, reachableKw, storageStepLimits } from './site-ratings';
 import { describeRanges, toStepRanges } from './step-ranges';
-import { storeInitialNeed, storeLevelFloors } from './store-floors';
 
 const fmt = (v: number) => String(Math.round(v * 1000) / 1000);
 
@@ -112,56 +111,47 @@ function reserveConflicts(spec: ResolvedSiteSpec): ResultWarning[] {
 }
 
 /**
- * A store whose hard demand, minimum or final level its producers can never keep up with, even
- * producing at full rating throughout: its level would have to exceed its capacity, or start above
- * its initial level.
+ * A store whose hard demand, minimum or final level its producers can never keep up with: filled as
+ * fast as every producer at full rating allows (never above capacity), with nothing consumed, its
+ * level is the highest any schedule can reach at every step; where even that falls below the minimum,
+ * or ends below the final level, no schedule exists.
  */
 function storeConflicts(spec: ResolvedSiteSpec): ResultWarning[] {
   const found: ResultWarning[] = [];
-  storeLevelFloors(spec).forEach((floors, j) => {
-    const s = spec.stores[j];
-    const over: number[] = [];
-    for (let t = 0; t < floors.length; t++) if (floors[t] > s.capacity + 1e-9 * Math.max(1, s.capacity)) over.push(t);
-    const need = storeInitialNeed(spec, j, floors);
+  const dh = spec.horizon.stepMinutes / 60;
+  spec.stores.forEach((s, j) => {
+    let production = 0;
+    for (const u of spec.units) if (u.produces?.store === j) production += u.produces.perKwh * u.ratingKw;
+    const hard = s.shortfallPenaltyPerUnit === null;
+    const tol = 1e-9 * Math.max(1, s.capacity);
     const unit = s.unit ? ` ${s.unit}` : '';
-    if (over.length) {
-      const ranges = toStepRanges(over);
+    let level = s.initial;
+    for (let t = 0; t < spec.horizon.steps; t++) {
+      level = Math.min(s.capacity, (1 - s.lossPerHour * dh) * level + dh * (production + s.inflowPerHour[t] - (hard ? s.demandPerHour[t] : 0)));
+      if (level < s.min - tol) {
+        found.push({
+          code: 'store-demand-unmet',
+          message:
+            `Store "${s.id}" cannot meet its demand: even with every producer at full rating from the start, its level would fall ` +
+            `to ${fmt(level)}${unit} at step ${t}, below its minimum of ${fmt(s.min)}${unit}. Lower the demand, add production, ` +
+            'or set shortfallPenaltyPerUnit to allow a shortfall.',
+          pointer: `/stores/${j}/demandPerHour`,
+          steps: [{ from: t, to: t }],
+        });
+        return;
+      }
+    }
+    const T = spec.horizon.steps;
+    if (s.final !== null && T > 0 && level < s.final - tol) {
       found.push({
-        code: 'store-demand-unmet',
-        message:
-          `Store "${s.id}" cannot meet its demand: even with every producer at full rating, it would need to hold more than its capacity ` +
-          `of ${fmt(s.capacity)}${unit} at ${describeRanges(ranges)} to cover what is drawn afterwards.`,
-        pointer: `/stores/${j}/demandPerHour`,
-        steps: ranges,
-      });
-    } else if (need > s.initial + 1e-9 * Math.max(1, s.capacity)) {
-      const firstShort = firstStepBelowFloor(spec, j, floors);
-      found.push({
-        code: 'store-demand-unmet',
-        message:
-          `Store "${s.id}" cannot meet its demand, minimum and final level: even with every producer at full rating from the start, ` +
-          `it would need ${fmt(need)}${unit} at the start but holds ${fmt(s.initial)}${unit}.`,
-        pointer: `/stores/${j}/demandPerHour`,
-        steps: [{ from: firstShort, to: firstShort }],
+        code: 'store-final-unreachable',
+        message: `Store "${s.id}" cannot reach its final level of ${fmt(s.final)}${unit}: filled as fast as its producers allow, it ends at ${fmt(level)}${unit}.`,
+        pointer: `/stores/${j}/final`,
+        steps: [{ from: T - 1, to: T - 1 }],
       });
     }
   });
   return found;
-}
-
-/** The first step at which a store filled as fast as its producers can still falls below its floor. */
-function firstStepBelowFloor(spec: ResolvedSiteSpec, j: number, floors: Float64Array): number {
-  const s = spec.stores[j];
-  const dh = spec.horizon.stepMinutes / 60;
-  let production = 0;
-  for (const u of spec.units) if (u.produces?.store === j) production += u.produces.perKwh * u.ratingKw;
-  const hard = s.shortfallPenaltyPerUnit === null;
-  let level = s.initial;
-  for (let t = 0; t < floors.length; t++) {
-    level = Math.min(s.capacity, (1 - s.lossPerHour * dh) * level + dh * (production + s.inflowPerHour[t] - (hard ? s.demandPerHour[t] : 0)));
-    if (level < floors[t] - 1e-9 * Math.max(1, s.capacity)) return t;
-  }
-  return floors.length - 1;
 }
 
 /**

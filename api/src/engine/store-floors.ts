@@ -27,16 +27,3 @@ export function storeLevelFloors(spec: ResolvedSiteSpec): Float64Array[] {
     return floors;
   });
 }
-
-/** The level a store must hold before step 0 for the floors to be met: compared with its initial level. */
-export function storeInitialNeed(spec: ResolvedSiteSpec, j: number, floors: Float64Array): number {
-  const s = spec.stores[j];
-  const dh = spec.horizon.stepMinutes / 60;
-  if (!floors.length) return s.min;
-  let production = 0;
-  for (const u of spec.units) if (u.produces?.store === j) production += u.produces.perKwh * u.ratingKw;
-  const keep = 1 - s.lossPerHour * dh;
-  const drawn = (s.shortfallPenaltyPerUnit === null ? s.demandPerHour[0] : 0) - s.inflowPerHour[0];
-  if (keep <= 0) return floors[0] > dh * (production - drawn) ? Infinity : s.min;
-  return Math.max(s.min, (floors[0] - dh * (production - drawn)) / keep);
-}

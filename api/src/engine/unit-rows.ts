@@ -76,17 +76,19 @@ export function addUnitRows(a: ModelAssembler, plan: WindowPlan, cols: WindowCol
     }
   }
   if (u.minDownSteps > 1) {
-    // On at k−minDown ⇒ no start in k−minDown+1 … k (a stop must last minDown steps):
-    // Σ z_τ + y_{k−minDown} ≤ 1. Earlier history is in the plan's noStart.
-    for (let k = u.minDownSteps; k < n; k++) {
-      const before = on[k - u.minDownSteps];
-      if (before < 0) continue;
+    // On at j ⇒ no start in j+1 … j+minDown (a stop after j must last minDown steps): Σ z_τ + y_j ≤ 1.
+    // The range is cut short by the window's end, never skipped: a stop in the window's last
+    // minDown steps still may not be followed by a restart before it ends. Starts after an on state
+    // before the window are in the plan's noStart.
+    for (let j = 0; j < n - 1; j++) {
+      if (on[j] < 0) continue;
+      const last = Math.min(n - 1, j + u.minDownSteps);
       let count = 0;
-      for (let tau = k - u.minDownSteps + 1; tau <= k; tau++) if (start[tau] >= 0) count++;
+      for (let tau = j + 1; tau <= last; tau++) if (start[tau] >= 0) count++;
       if (count === 0) continue;
-      a.row(RowKind.UnitMinDown, k, i, -Infinity, 1);
-      for (let tau = k - u.minDownSteps + 1; tau <= k; tau++) a.entry(start[tau], 1);
-      a.entry(before, 1);
+      a.row(RowKind.UnitMinDown, last, i, -Infinity, 1);
+      for (let tau = j + 1; tau <= last; tau++) a.entry(start[tau], 1);
+      a.entry(on[j], 1);
     }
   }
   addColdStartRows(a, plan, cols, i);
