@@ -411,7 +411,8 @@ export async function buildPlainModel(spec: ResolvedSiteSpec, options: PlainOpti
     lp: {
       name: 'plain',
       objective: { direction: G.GLP_MAX, name: 'value', vars: objective.filter((term) => term.coef !== 0) },
-      subjectTo: rows.map((r) => ({ ...r, vars: r.vars.filter((term) => term.coef !== 0) })).filter((r) => r.vars.length > 0),
+      // A row left with no variables stays: 0 ≥ 5 (a reserve nobody can hold) makes the model infeasible.
+      subjectTo: rows.map((r) => ({ ...r, vars: r.vars.filter((term) => term.coef !== 0) })),
       bounds,
       binaries,
     },
