@@ -2,13 +2,18 @@
  * SPEC §5 on random small specs (support/arbitrary-spec.ts with `extensions`: curves, no-load,
  * hot/cold starts, ramps with initial output, spinning reserve from units and batteries, demand
  * charges in local-time windows across daylight-saving changes, supply-only charging, stores
- * with loss, shortfall and spill). Sources: GLPK (glpk.js 5.0) on our own plain formulation of
- * SPEC §2 and §5 (support/plain-formulation.ts), and our own reading of the ramp, reserve and
- * store rules (support/plain-schedule-checks.ts). Both solves run to a 1e-9 MIP gap, so the
- * optima must agree; feasibility must agree too.
+ * with loss, shortfall and spill). Sources: GLPK (glpk.js 5.0) and Debian's glpsol 5.0 and cbc
+ * 2.10.8 on our own plain formulation of SPEC §2 and §5 (support/plain-formulation.ts, as
+ * CPLEX-LP text for the command-line solvers, whose every answer is checked against the model),
+ * and our own reading of the ramp, reserve and store rules (support/plain-schedule-checks.ts).
+ * The engine and GLPK solve to a 1e-9 MIP gap, glpsol and cbc with their defaults (which close
+ * these small models to round-off), so the optima must agree within 1e-6; feasibility too.
  */
+import { mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import fc from 'fast-check';
-import { afterAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { Schedule } from '@gridwright/shared/run-result';
 import { solveSite, type SiteSolution } from '../../api/src/engine/solve-site';
@@ -17,7 +22,8 @@ import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { arbitraryResolvedSpec } from './support/arbitrary-spec';
 import { PROPERTY_TIMEOUT_MS, expectVerifiedOptimum, propertyRuns, reductionsHeldTo, sameOptimum } from './support/check-result';
-import { solvePlain } from './support/plain-formulation';
+import { buildPlainModel, solvePlain } from './support/plain-formulation';
+import { commandLineSolversPresent, solveLpText } from './support/plain-lp-text';
 import { rampBreaches, reserveBreaches, storeBreaches } from './support/plain-schedule-checks';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from './support/specs';
 
@@ -81,4 +87,34 @@ describe('SPEC §5 on random small specs', () => {
       propertyRuns(30),
     );
   }, PROPERTY_TIMEOUT_MS);
+
+  describe.skipIf(!commandLineSolversPresent && !process.env.CI)('in Debian glpsol and cbc', () => {
+    let dir = '';
+    beforeAll(() => { dir = mkdtempSync(path.join(os.tmpdir(), 'gridwright-lp-props-')); });
+    afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+    it('glpsol and cbc on the plain formulation agree with the engine, with points that hold', async () => {
+      let run = 0;
+      await fc.assert(
+        fc.asyncProperty(arbitraryResolvedSpec({ extensions: true }), async (spec) => {
+          const result = await solveWith(spec, ALL_REDUCTIONS_ON);
+          const model = await buildPlainModel(spec);
+          run++;
+          for (const cli of ['glpsol', 'cbc'] as const) {
+            const answer = await solveLpText(model, cli, { dir, name: `spec-${run}-${cli}` });
+            if (result.outcome === 'infeasible') {
+              expect(answer.status, cli).toBe('infeasible');
+              continue;
+            }
+            const value = expectSoundOptimum(spec, result);
+            expect(answer.status, cli).toBe('optimal');
+            expect(answer.violations, cli).toEqual([]);
+            expect(sameOptimum(answer.recomputedObjective, answer.objective), `${cli} says ${answer.objective}, its point is worth ${answer.recomputedObjective}`).toBe(true);
+            expect(sameOptimum(answer.objective, value), `${cli} ${answer.objective} vs engine ${value}`).toBe(true);
+          }
+        }),
+        propertyRuns(25),
+      );
+    }, PROPERTY_TIMEOUT_MS);
+  });
 });

@@ -3,7 +3,9 @@
  * cbc 2.10.8), and every answer they give checked against the model itself: each binary within
  * 1e-6 of 0 or 1, each bound and each row held, and the objective recomputed from the values.
  * PLATFORM.md saw cbc's preprocessing call fractional integers on an infeasible model optimal,
- * so cbc always runs with `preprocess off` and is never believed unchecked.
+ * so cbc runs with `preprocess off` and is never believed unchecked. On some small infeasible
+ * models cbc 2.10.8 crashes (SIGSEGV) with preprocessing off; it is then run once more with its
+ * defaults, and that answer goes through the same checks.
  *
  * The text is written here rather than with glpk.js's writer, so the command-line solvers read
  * text that GLPK's code never produced.
@@ -151,7 +153,14 @@ function runGlpsol(lpFile: string, text: string, out: string): RawAnswer {
 }
 
 function runCbc(lpFile: string, out: string, threads: number): RawAnswer {
-  execFileSync(CBC, [lpFile, 'preprocess', 'off', 'threads', String(threads), 'solve', 'solu', out, 'quit'], { stdio: 'ignore' });
+  const run = (preprocess: string[]) =>
+    execFileSync(CBC, [lpFile, ...preprocess, 'threads', String(threads), 'solve', 'solu', out, 'quit'], { stdio: 'ignore' });
+  try {
+    run(['preprocess', 'off']);
+  } catch (error) {
+    if ((error as { signal?: string }).signal !== 'SIGSEGV') throw error;
+    run([]);
+  }
   const sol = readFileSync(out, 'utf8');
   const head = sol.split('\n')[0];
   const values = new Map<string, number>();
