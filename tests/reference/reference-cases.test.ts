@@ -19,6 +19,7 @@ import { verifySchedule } from '../../api/src/engine/verify-schedule';
 import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { buildPlainModel, solvePlain, type Misreading } from './support/plain-formulation';
+import { expectObjectiveTerms, expectSeries } from './support/check-result';
 import { commandLineSolversPresent, solveLpText } from './support/plain-lp-text';
 import {
   ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, REFERENCE_DIR, closeRel, monolithic, readReferenceCase, referenceCasesPresent, resolveSpec,
@@ -98,19 +99,6 @@ const CASES: ReferenceCase[] = [
   },
 ];
 
-/** |x − want| within the README's 1e-6 relative tolerance, step by step. */
-function expectSeries(label: string, xs: readonly number[], want: readonly number[]) {
-  expect(xs.length, label).toBe(want.length);
-  xs.forEach((x, t) => expect(closeRel(x, want[t]), `${label} step ${t}: ${x} vs ${want[t]}`).toBe(true));
-}
-
-function expectTerms(result: SiteSolution, want: Partial<NonNullable<SiteSolution['kpis']>['objectiveTerms']>) {
-  for (const [term, value] of Object.entries(want)) {
-    const got = result.kpis!.objectiveTerms[term as keyof typeof want];
-    expect(closeRel(got, value), `objective term ${term}: ${got} vs ${value}`).toBe(true);
-  }
-}
-
 /**
  * The seven SPEC §5 cases. Hourly steps, so Δh = 1 and kW and kWh are the same figure; the
  * optimum is maximised, so a pure cost is negative.
@@ -131,7 +119,7 @@ const EXTENSION_CASES: ReferenceCase[] = [
       expect(r.schedule!.units.big.on).toEqual([1, 1, 0, 1]);
       expect(r.schedule!.units['small-1'].on).toEqual([0, 0, 0, 0]);
       expect(r.schedule!.units['small-2'].on).toEqual([0, 0, 0, 0]);
-      expectTerms(r, { energy: -28.8, noLoad: -6, starts: 0 });
+      expectObjectiveTerms(r, { energy: -28.8, noLoad: -6, starts: 0 });
     },
   },
   {
@@ -149,7 +137,7 @@ const EXTENSION_CASES: ReferenceCase[] = [
       expect(r.kpis!.units.gen.starts).toBe(1);
       expect(r.kpis!.units.gen.coldStarts).toBe(0);
       expect(r.kpis!.units.gen.onSteps).toBe(3);
-      expectTerms(r, { energy: 35, starts: -8 });
+      expectObjectiveTerms(r, { energy: 35, starts: -8 });
     },
   },
   {
@@ -210,7 +198,7 @@ const EXTENSION_CASES: ReferenceCase[] = [
       expectSeries('import', r.schedule!.grid.importKw, [175, 150, 150, 300]);
       expect(closeRel(r.kpis!.demandCharges['evening-peak'].peakKw, 150)).toBe(true);
       expect(closeRel(r.kpis!.demandCharges['evening-peak'].cost, 0)).toBe(true);
-      expectTerms(r, { energy: -77.5, demandCharges: 0 });
+      expectObjectiveTerms(r, { energy: -77.5, demandCharges: 0 });
     },
   },
   {
