@@ -21,7 +21,7 @@ import { verifySchedule } from '../../api/src/engine/verify-schedule';
 import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { arbitraryResolvedSpec } from './support/arbitrary-spec';
-import { PROPERTY_TIMEOUT_MS, expectVerifiedOptimum, propertyRuns, reductionsHeldTo, sameOptimum } from './support/check-result';
+import { PROPERTY_TIMEOUT_MS, expectVerifiedOptimum, propertyRuns, sameOptimum } from './support/check-result';
 import { buildPlainModel, solvePlain } from './support/plain-formulation';
 import { commandLineSolversPresent, solveLpText } from './support/plain-lp-text';
 import { rampBreaches, reserveBreaches, storeBreaches } from './support/plain-schedule-checks';
@@ -31,7 +31,7 @@ const solver = new HighsSolverPool({ size: defaultSolverThreads() });
 afterAll(() => solver.close());
 
 const solveWith = (spec: ResolvedSiteSpec, reductions: ResolvedSiteSpec['solver']['reductions']) =>
-  solveSite(monolithic(spec, reductionsHeldTo(spec, reductions)), { solver });
+  solveSite(monolithic(spec, reductions), { solver });
 
 function expectWithinSpecLimits(spec: ResolvedSiteSpec, schedule: Schedule) {
   expect(rampBreaches(spec, schedule), 'ramps').toEqual([]);

@@ -70,23 +70,3 @@ export function propertyRuns(numRuns: number): { numRuns: number; seed: number }
 
 /** A generous per-test limit for the property runs: dozens of solves on a busy 2-core machine. */
 export const PROPERTY_TIMEOUT_MS = 240_000;
-
-/**
- * The reductions the property checks hold the engine to on a spec: the given ones, except that
- * relaxExclusivity stays off where a battery holds spinning reserve. There, charging and
- * discharging in one step can pay in the relaxed model — it burns stored energy without using
- * up the discharge headroom the reserve counts — so dropping the binary changes the optimum, and
- * the repair that nets the two afterwards lowers the reserve held (under a hard requirement the
- * schedule then fails verification). Example: a full 40 kWh battery (10 kW each way, 0.8 each
- * way) that must hold 10 kW of reserve at step 0 and 15 kW at step 1 can only do so at step 1 by
- * charging 5 kW, so it must lose 4 kWh at step 0; discharged (3.2 kW) they leave only 6.8 kW of
- * reserve at step 0, while charging and discharging 8.9 kW at once burns them and leaves 10. This
- * carve-out goes once the engine keeps those binaries.
- */
-export function reductionsHeldTo(
-  spec: ResolvedSiteSpec,
-  reductions: ResolvedSiteSpec['solver']['reductions'],
-): ResolvedSiteSpec['solver']['reductions'] {
-  const batteryHoldsReserve = spec.reserve !== null && spec.storage.some((s) => s.providesReserve);
-  return batteryHoldsReserve ? { ...reductions, relaxExclusivity: false } : reductions;
-}
