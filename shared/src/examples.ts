@@ -2,6 +2,7 @@
 import islandMicrogrid from '../examples/island-microgrid.json' with { type: 'json' };
 import gridElectrolyser from '../examples/grid-electrolyser.json' with { type: 'json' };
 import solarPumpStation from '../examples/solar-pump-station.json' with { type: 'json' };
+import warehouseDemandCharge from '../examples/warehouse-demand-charge.json' with { type: 'json' };
 import type { SiteSpec } from './site-spec';
 
 export interface ExampleSite {
@@ -13,30 +14,39 @@ export interface ExampleSite {
 
 export const exampleSites: ExampleSite[] = [
   {
-    id: 'solar-pump-station',
-    title: 'Solar-fed irrigation pump station',
-    description:
-      'An off-grid pump station on a hillside: 220 kWp of solar, a main and a booster pump that run as flexible loads ' +
-      'with minimum stable flow and minimum run times, a small battery that must end the day where it started. ' +
-      '48 half-hour steps.',
-    spec: solarPumpStation as unknown as SiteSpec,
-  },
-  {
     id: 'island-microgrid',
-    title: 'Island microgrid with a generator',
+    title: 'Island village microgrid with three gensets and a fuel tank',
     description:
-      'A village microgrid without a grid connection: a hard site load peaking in the evening, rooftop solar, a ' +
-      'diesel-style generator with minimum up/down times that is already running, an ice maker as a flexible load ' +
-      'and a battery. Two days at hourly steps.',
+      'A village grid without a connection: solar, a battery, three diesel gensets with idling (no-load) costs, part-load ' +
+      'cost curves, hot and cold starts and ramp limits, all drawing on one diesel tank, an ice maker as a flexible load, ' +
+      'and spinning reserve of 12 % of the load (at least 50 kW). Two days at hourly steps, local time of the island.',
     spec: islandMicrogrid as unknown as SiteSpec,
   },
   {
-    id: 'grid-electrolyser',
-    title: 'Grid-tied electrolyser with a battery',
+    id: 'solar-pump-station',
+    title: 'Hillside pump station with a reservoir',
     description:
-      'A 1 MW electrolyser next to a wind farm, grid-connected with hourly import and export prices (briefly negative ' +
-      'at night), a battery with a final SOC target and a small auxiliary load that may go unserved at a penalty. ' +
-      '36 hourly steps.',
+      "A town's water pumps fed by solar and a small grid connection with time-of-use prices: two pumps fill a 1 400 m3 " +
+      'reservoir that loses a little to evaporation and must meet the hourly water demand and end the day where it ' +
+      'started; the battery may charge from the solar only. 48 half-hour steps.',
+    spec: solarPumpStation as unknown as SiteSpec,
+  },
+  {
+    id: 'grid-electrolyser',
+    title: 'Power-to-X plant with a hydrogen tank and a fuel cell',
+    description:
+      'A 1 MW electrolyser beside a wind farm fills a hydrogen tank against an offtake contract of 8 kg an hour (a shortfall ' +
+      'costs a penalty); a fuel cell can turn hydrogen back into power. Grid import and export at hourly prices, briefly ' +
+      'negative at night; a battery with a final SOC target. 36 hourly steps.',
     spec: gridElectrolyser as unknown as SiteSpec,
+  },
+  {
+    id: 'warehouse-demand-charge',
+    title: 'Distribution warehouse with a demand charge',
+    description:
+      'A grid-tied warehouse with rooftop solar and a battery whose bill carries a demand charge on the highest import ' +
+      'between 08:00 and 20:00 on weekdays, local time, above the 300 kW already reached this month. Two days at ' +
+      'half-hour steps.',
+    spec: warehouseDemandCharge as unknown as SiteSpec,
   },
 ];

@@ -35,10 +35,52 @@ export type ObjectiveReport = z.infer<typeof objectiveSchema>;
 
 const count = z.number().int().min(0);
 
-const unitKpisSchema = z.object({ energyKwh: z.number(), starts: count, onSteps: count });
+const unitKpisSchema = z.object({
+  energyKwh: z.number(),
+  starts: count,
+  coldStarts: count.meta({
+    description: 'Starts after more than `coldAfterSteps` steps off (0 for a unit with one start cost: every start counts as hot).',
+  }),
+  onSteps: count,
+});
 export type UnitKpis = z.infer<typeof unitKpisSchema>;
 const storageKpisSchema = z.object({ chargedKwh: z.number(), dischargedKwh: z.number(), finalSocKwh: z.number() });
 export type StorageKpis = z.infer<typeof storageKpisSchema>;
+
+const storeKpisSchema = z
+  .object({
+    produced: z.number(),
+    consumed: z.number(),
+    inflow: z.number().meta({ description: 'What arrived from outside (inflowPerHour).' }),
+    delivered: z.number().meta({ description: 'The demand met: the demand less the shortfall.' }),
+    shortfall: z.number(),
+    spilled: z.number(),
+    finalLevel: z.number(),
+  })
+  .meta({ description: "Totals of one store over the horizon, in the store's own unit (fuel, water, hydrogen…)." });
+export type StoreKpis = z.infer<typeof storeKpisSchema>;
+
+const demandChargeKpisSchema = z.object({
+  peakKw: z.number().meta({ description: "The highest import in the charge's window, at least its existingPeakKw." }),
+  cost: z.number().meta({ description: 'pricePerKw × (peakKw − existingPeakKw).' }),
+});
+export type DemandChargeKpis = z.infer<typeof demandChargeKpisSchema>;
+
+const objectiveTermsSchema = z
+  .object({
+    energy: z.number().meta({ description: "Export revenue − import cost + flexible loads' value − generators' energy cost (their curves)." }),
+    noLoad: z.number(),
+    starts: z.number(),
+    demandCharges: z.number(),
+    penalties: z.number().meta({ description: 'Unserved load, reserve shortfall and store shortfall, each at its penalty.' }),
+    cycleCost: z.number(),
+  })
+  .meta({
+    description:
+      'Where the money goes: each a signed contribution to `objective.value` (value positive, cost negative); together they sum to it.',
+  })
+  .register(runComponents, { id: 'ObjectiveTerms' });
+export type ObjectiveTerms = z.infer<typeof objectiveTermsSchema>;
 
 const kpisSchema = z
   .object({
@@ -47,39 +89,87 @@ const kpisSchema = z
     importKwh: z.number(),
     exportKwh: z.number(),
     unservedKwh: z.number(),
+    reserveShortfallKwh: z.number().meta({ description: 'Spinning reserve short of the requirement, in kWh (0 without a requirement).' }),
     units: z.record(z.string(), unitKpisSchema),
     storage: z.record(z.string(), storageKpisSchema),
+    stores: z.record(z.string(), storeKpisSchema),
+    demandCharges: z.record(z.string(), demandChargeKpisSchema),
+    objectiveTerms: objectiveTermsSchema,
   })
   .register(runComponents, { id: 'Kpis' });
 export type Kpis = z.infer<typeof kpisSchema>;
 
 const perStep = z.array(z.number());
 
+const reserveHeld = perStep.meta({
+  description: 'Spinning reserve held per step (headroom); present when the spec requires reserve and this asset provides it.',
+});
+
 const unitScheduleSchema = z.object({
   on: z.array(z.number().int().min(0).max(1)).meta({ description: '0 or 1 per step.' }),
   powerKw: perStep,
+  reserveKw: reserveHeld.optional(),
 });
 export type UnitSchedule = z.infer<typeof unitScheduleSchema>;
 const storageScheduleSchema = z.object({
   chargeKw: perStep,
   dischargeKw: perStep,
   socKwh: perStep.meta({ description: 'State of charge at the end of each step.' }),
+  reserveKw: reserveHeld.optional(),
 });
 export type StorageSchedule = z.infer<typeof storageScheduleSchema>;
+
+const storeScheduleSchema = z.object({
+  level: perStep.meta({ description: "Level at the end of each step, in the store's unit." }),
+  shortfall: perStep.meta({ description: "Demand not met per step, in the store's unit per hour." }),
+  spill: perStep.meta({ description: "Product discarded per step, in the store's unit per hour." }),
+});
+export type StoreSchedule = z.infer<typeof storeScheduleSchema>;
+
+const reserveScheduleSchema = z
+  .object({
+    requiredKw: perStep,
+    providedKw: perStep.meta({ description: 'What the units and batteries that provide reserve hold: their headroom, summed.' }),
+    shortfallKw: perStep,
+  })
+  .nullable()
+  .meta({ description: 'Spinning reserve per step; null when the spec has no reserve requirement.' });
+export type ReserveSchedule = NonNullable<z.infer<typeof reserveScheduleSchema>>;
+
+const priced = z.array(z.number().nullable());
+const marginalValuesSchema = z
+  .object({
+    energyPerKwh: priced,
+    stores: z.record(z.string(), priced),
+  })
+  .meta({
+    description:
+      'Marginal values from the LP with every on/off and exclusivity decision fixed at the schedule’s (the duals of the ' +
+      'energy balance and of each store’s level): what one more kWh delivered to the site, or one more unit put into a ' +
+      'store, is worth at that step, in money per kWh (per store unit). null where no price is known.',
+  });
+export type MarginalValues = z.infer<typeof marginalValuesSchema>;
 
 const scheduleSchema = z
   .object({
     timestamps: z
       .array(z.iso.datetime({ offset: true }))
-      .meta({ description: "Start of each step, ISO 8601 with the horizon's offset." }),
+      .meta({ description: "Start of each step, ISO 8601 with the local offset (horizon.timeZone's, or the start's own)." }),
     supplyUsedKw: perStep,
     curtailedKw: perStep,
     unservedKw: perStep,
     grid: z.object({ importKw: perStep, exportKw: perStep }),
     units: z.record(z.string(), unitScheduleSchema),
     storage: z.record(z.string(), storageScheduleSchema),
+    stores: z.record(z.string(), storeScheduleSchema),
+    reserve: reserveScheduleSchema,
+    marginalValues: marginalValuesSchema,
   })
-  .meta({ description: "Per-step values; `timestamps` are the starts of the steps with the spec's offset. Advisory — an operator approves setpoints." })
+  .meta({
+    description:
+      "Per-step values; `timestamps` are the starts of the steps in local time (the spec's `horizon.timeZone`, or the start's " +
+      'offset). Advisory — an operator approves setpoints.',
+  })
   .register(runComponents, { id: 'Schedule' });
 export type Schedule = z.infer<typeof scheduleSchema>;
 
@@ -124,8 +214,12 @@ const modelReportSchema = z
     reductions: reductionsSchema.meta({ description: 'The formulation techniques the spec left switched on.' }),
     segments: count.meta({ description: 'Sequences of rolling windows solved side by side (1: one sequence, or monolithic).' }),
     scale: z
-      .object({ powerKw: z.number(), money: z.number() })
-      .meta({ description: 'The internal units chosen by `scaling` (1 kW and 1 money unit when off).' }),
+      .object({ powerKw: z.number(), money: z.number(), stores: z.record(z.string(), z.number()), demandPeakKw: z.number() })
+      .meta({
+        description:
+          'The internal units chosen by `scaling` (1 when off): power, money, each store in its own unit, and demand-charge ' +
+          'peaks (a power of ten below the power unit, so a kW of peak and a kWh of energy have prices of similar size).',
+      }),
     buildSeconds: z.number(),
     solveSeconds: z
       .number()

@@ -55,6 +55,9 @@ function baseSchedule(): Schedule {
       f1: { on: [1, 0, 1, 1], powerKw: [50, 0, 10, 50] },
     },
     storage: { b: { chargeKw: [20, 0, 0, 0], dischargeKw: [0, 0, 16, 0], socKwh: [68, 68, 48, 48] } },
+    stores: {},
+    reserve: null,
+    marginalValues: { energyPerKwh: [null, null, null, null], stores: {} },
   };
 }
 
@@ -185,7 +188,7 @@ describe('verifySchedule: each broken rule is caught', () => {
 
   it('grid flow on an island', () => {
     const spec = baseSpec();
-    spec.grid = { island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0, 0], exportPrice: [0, 0, 0, 0] };
+    spec.grid = { island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0, 0], exportPrice: [0, 0, 0, 0], demandCharges: [] };
     const r = verifySchedule(spec, baseSchedule());
     expect(r.violations.map((v) => [v.code, v.step])).toEqual([['export-limit', 1], ['export-limit', 2]]);
     expect(r.violations[0].message).toMatch(/island/);
@@ -257,7 +260,7 @@ describe('verifySchedule: each broken rule is caught', () => {
   it('minimum up time carried over from the initial state', () => {
     // On for 1 step before the horizon with minUpSteps 2: it must stay on through step 0.
     const spec = baseSpec();
-    spec.units[0].initial = { on: true, stepsInState: 1 };
+    spec.units[0].initial = { on: true, stepsInState: 1, powerKw: null };
     spec.units[0].minDownSteps = 1;
     expect(verifySchedule(spec, baseSchedule()).violations).toEqual([
       expect.objectContaining({ code: 'min-up', step: 0, pointer: '/units/0/initial' }),
@@ -266,7 +269,7 @@ describe('verifySchedule: each broken rule is caught', () => {
 
   it('counts no start at step 0 for a unit that was already on', () => {
     const spec = baseSpec();
-    spec.units[1].initial = { on: true, stepsInState: 5 };
+    spec.units[1].initial = { on: true, stepsInState: 5, powerKw: null };
     const r = verifySchedule(spec, baseSchedule());
     expect(r.ok).toBe(true);
     expect(r.objective).toBeCloseTo(-111.36 + 1, 9);
@@ -274,7 +277,7 @@ describe('verifySchedule: each broken rule is caught', () => {
 
   it('minimum down time carried over from the initial state', () => {
     const spec = baseSpec();
-    spec.units[1].initial = { on: false, stepsInState: 1 };
+    spec.units[1].initial = { on: false, stepsInState: 1, powerKw: null };
     spec.units[1].minDownSteps = 2;
     expect(verifySchedule(spec, baseSchedule()).violations).toEqual([
       expect.objectContaining({ code: 'min-down', step: 0, pointer: '/units/1/initial' }),
@@ -403,6 +406,9 @@ describe('verifySchedule: each broken rule is caught', () => {
       grid: { importKw: zeros, exportKw: zeros },
       units: {},
       storage: {},
+      stores: {},
+      reserve: null,
+      marginalValues: { energyPerKwh: zeros, stores: {} },
     });
     expect(r.violations).toHaveLength(MAX_REPORTED_VIOLATIONS + 1);
     expect(r.violations.at(-1)).toEqual({ code: 'more-violations', message: `${T - MAX_REPORTED_VIOLATIONS} further violations not listed` });

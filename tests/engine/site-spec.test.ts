@@ -28,10 +28,12 @@ describe('site spec v1 validation', () => {
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     const s = resolveDefaults(r.spec);
-    expect(s.units[0]).toMatchObject({ minStableKw: 0, startupCost: 0, costPerKwh: 0, valuePerKwh: 0, minUpSteps: 1, minDownSteps: 1 });
-    expect(s.units[0].initial).toEqual({ on: false, stepsInState: 1 });
+    // A generator without a cost is one slice at 0 per kWh up to its rating (SPEC §5 curves).
+    expect(s.units[0]).toMatchObject({ minStableKw: 0, curve: [{ upToKw: 10, perKwh: 0 }], minUpSteps: 1, minDownSteps: 1 });
+    expect(s.units[0].startupCost).toEqual({ hot: 0, cold: 0, coldAfterSteps: null });
+    expect(s.units[0].initial).toEqual({ on: false, stepsInState: 1, powerKw: null });
     expect(s.storage[0]).toMatchObject({ minSocKwh: 0, chargeEfficiency: 1, dischargeEfficiency: 1, cycleCostPerKwh: 0, finalSocKwh: null });
-    expect(s.grid).toEqual({ island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0] });
+    expect(s.grid).toEqual({ island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0], demandCharges: [] });
     expect(s.siteLoad).toEqual({ kw: [0, 0, 0], unservedPenaltyPerKwh: null });
     // Default windows are the steps in 36 h and 24 h; a month of them per parallel segment; the
     // lookahead relaxed.
@@ -74,7 +76,7 @@ describe('site spec v1 validation', () => {
     expect(byPointer['/siteLoad/kw']).toMatch(/4 values/);
     expect(byPointer['/grid/exportPrice']).toMatch(/1 values/);
     expect(byPointer['/units/0/minStableKw']).toMatch(/exceeds ratingKw/);
-    expect(byPointer['/storage/0/id']).toMatch(/unique across units and storage/);
+    expect(byPointer['/storage/0/id']).toMatch(/unique across units, storage and stores/);
     expect(byPointer['/storage/0/initialSocKwh']).toMatch(/within/);
     expect(byPointer['/storage/0/finalSocKwh']).toMatch(/within/);
     expect(byPointer['/solver/window/commitSteps']).toMatch(/exceeds windowSteps/);
@@ -135,12 +137,14 @@ describe('site spec resolution', () => {
   it('resolves a minimal spec to the complete engine input', () => {
     expect(resolved(minimal())).toEqual({
       name: null,
-      horizon: { start: '2027-03-01T00:00:00+01:00', stepMinutes: 60, steps: 3 },
+      horizon: { start: '2027-03-01T00:00:00+01:00', stepMinutes: 60, steps: 3, timeZone: null },
       supply: { availableKw: [0, 5, 10] },
       siteLoad: { kw: [0, 0, 0], unservedPenaltyPerKwh: null },
-      grid: { island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0] },
+      grid: { island: true, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0], demandCharges: [] },
       units: [],
       storage: [],
+      stores: [],
+      reserve: null,
       solver: {
         mode: 'auto',
         // 36 h and 24 h of 60-minute steps.
@@ -165,14 +169,16 @@ describe('site spec resolution', () => {
     });
     expect(spec.name).toBe('yard');
     expect(spec.siteLoad).toEqual({ kw: [1, 2, 3], unservedPenaltyPerKwh: 4 });
-    expect(spec.grid).toEqual({ island: false, importLimitKw: 9, exportLimitKw: 8, importPrice: [1, 2, 3], exportPrice: [0.5, 0.5, 0.5] });
+    expect(spec.grid).toEqual({ island: false, importLimitKw: 9, exportLimitKw: 8, importPrice: [1, 2, 3], exportPrice: [0.5, 0.5, 0.5], demandCharges: [] });
+    // costPerKwh becomes one slice up to the rating; a single start cost is hot = cold (SPEC §5).
     expect(spec.units[0]).toEqual({
-      id: 'g', kind: 'generator', ratingKw: 10, minStableKw: 2, valuePerKwh: 0, costPerKwh: 0.3, startupCost: 5, minUpSteps: 2, minDownSteps: 3,
-      initial: { on: true, stepsInState: 7 },
+      id: 'g', kind: 'generator', ratingKw: 10, minStableKw: 2, curve: [{ upToKw: 10, perKwh: 0.3 }], noLoadCostPerHour: 0,
+      startupCost: { hot: 5, cold: 5, coldAfterSteps: null }, minUpSteps: 2, minDownSteps: 3, rampUpKwPerMin: null, rampDownKwPerMin: null,
+      initial: { on: true, stepsInState: 7, powerKw: null }, providesReserve: true, produces: null, consumes: null,
     });
     expect(spec.storage[0]).toEqual({
       id: 'b', capacityKwh: 10, maxChargeKw: 5, maxDischargeKw: 4, chargeEfficiency: 0.9, dischargeEfficiency: 0.8, minSocKwh: 1, initialSocKwh: 2,
-      finalSocKwh: 3, cycleCostPerKwh: 0.01,
+      finalSocKwh: 3, cycleCostPerKwh: 0.01, chargeFromSupplyOnly: false, providesReserve: true,
     });
     expect(spec.solver).toEqual({
       mode: 'rolling',
@@ -184,7 +190,9 @@ describe('site spec resolution', () => {
   });
 
   it('gives a grid without prices zero prices, and is not an island', () => {
-    expect(resolved({ ...minimal(), grid: {} }).grid).toEqual({ island: false, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0] });
+    expect(resolved({ ...minimal(), grid: {} }).grid).toEqual({
+      island: false, importLimitKw: 0, exportLimitKw: 0, importPrice: [0, 0, 0], exportPrice: [0, 0, 0], demandCharges: [],
+    });
   });
 
   it('sets a unit’s time in its initial state to its longest minimum when the spec leaves it out', () => {
@@ -199,10 +207,10 @@ describe('site spec resolution', () => {
     });
     // Absent: off for max(minUpSteps, minDownSteps) steps — max(1, 1) = 1 and max(3, 5) = 5; given on: max(4, 2) = 4.
     expect(spec.units.map((u) => u.initial)).toEqual([
-      { on: false, stepsInState: 1 },
-      { on: false, stepsInState: 5 },
-      { on: true, stepsInState: 4 },
-      { on: false, stepsInState: 0 },
+      { on: false, stepsInState: 1, powerKw: null },
+      { on: false, stepsInState: 5, powerKw: null },
+      { on: true, stepsInState: 4, powerKw: null },
+      { on: false, stepsInState: 0, powerKw: null },
     ]);
   });
 

@@ -87,6 +87,10 @@ function ceilings(spec: ResolvedSiteSpec): Map<string, number> {
     m.set(`${s.id} charge/discharge exclusivity (charge side)`, s.maxChargeKw);
     m.set(`${s.id} charge/discharge exclusivity (discharge side)`, s.maxDischargeKw);
   }
+  // SPEC §5: a generator's reserve headroom is rating·y − p, its M the rating itself; a demand
+  // charge's peak can never exceed the import limit (nor fall below the peak already reached).
+  for (const u of spec.units) if (u.kind === 'generator') m.set(`${u.id} reserve headroom (rating)`, u.ratingKw);
+  for (const c of spec.grid.demandCharges) m.set(`${c.id} demand-charge peak (import limit)`, Math.max(spec.grid.importLimitKw, c.existingPeakKw));
   m.set('grid import/export exclusivity (import side)', spec.grid.importLimitKw);
   m.set('grid import/export exclusivity (export side)', spec.grid.exportLimitKw);
   return m;
@@ -151,8 +155,9 @@ describe('naive big-M = 1e10 (plain formulation)', () => {
   // HiGHS defaults (highs package option docs): primal feasibility 1e-7, integrality 1e-6.
   const PRIMAL_TOL = 1e-7;
   const INTEGRALITY_TOL = 1e-6;
-  // "Off" within the integrality tolerance, yet running at full rating, with a 1e-7 start.
-  const loophole = { y_0_0: 1e-7, z_0_0: 1e-7, w_0_0: 0, p_0_0: 1000, exp_0: 1000, gi_0: 0, g_0: 0, u_0: 0, imp_0: 0 };
+  // "Off" within the integrality tolerance, yet running at full rating (its one cost slice full),
+  // with a 1e-7 start (counted as cold: the unit has one start price).
+  const loophole = { y_0_0: 1e-7, z_0_0: 1e-7, zc_0_0: 1e-7, zh_0_0: 0, w_0_0: 0, p_0_0: 1000, q_0_0_0: 1000, exp_0: 1000, gi_0: 0, g_0: 0, u_0: 0, imp_0: 0 };
 
   it('accepts a unit that is "off" and at full power within the solver tolerances; the tight model does not', async () => {
     const G = await glpk();

@@ -84,6 +84,9 @@ async function main(solver: HighsSolverPool): Promise<void> {
       grid: { importKw: [], exportKw: [] },
       units: Object.fromEntries(spec.units.map((u) => [u.id, { on: [], powerKw: [] }])),
       storage: Object.fromEntries(spec.storage.map((s) => [s.id, { chargeKw: [], dischargeKw: [], socKwh: [] }])),
+      stores: Object.fromEntries(spec.stores.map((s) => [s.id, { level: [], shortfall: [], spill: [] }])),
+      reserve: null,
+      marginalValues: { energyPerKwh: [], stores: {} },
     };
     process.stdout.write(scheduleToCsv(schedule, csvDefaults));
     if (!result.schedule) process.stderr.write(`outcome: ${result.outcome}; no schedule\n`);

@@ -1,6 +1,8 @@
-import { GrowableArray } from './growable-array';
+import { ModelAssembler } from './model-assembler';
 import { ColKind, RowKind, type ModelArrays, type ModelTags } from './model-arrays';
 import type { WindowPlan } from './plan-window';
+import { sliceWidths } from './unit-curves';
+import { addUnitRows, coldStartPossible } from './unit-rows';
 
 /** Column index of each decision per local step; −1 where the variable does not exist. */
 export interface WindowColumns {
@@ -9,8 +11,27 @@ export interface WindowColumns {
   exp: Int32Array;
   unserved: Int32Array;
   gridBinary: Int32Array;
-  units: { on: Int32Array; start: Int32Array; power: Int32Array }[];
-  storage: { charge: Int32Array; discharge: Int32Array; soc: Int32Array; binary: Int32Array }[];
+  units: {
+    on: Int32Array;
+    start: Int32Array;
+    power: Int32Array;
+    /** Per slice of a curve with more than one slice; empty otherwise (the price sits on `power`). */
+    slices: Int32Array[];
+    /** 1 for a start after more than `coldAfterSteps` steps off (it pays cold − hot more). */
+    coldStart: Int32Array;
+    reserve: Int32Array;
+  }[];
+  storage: { charge: Int32Array; discharge: Int32Array; soc: Int32Array; binary: Int32Array; reserve: Int32Array }[];
+  stores: { level: Int32Array; shortfall: Int32Array; spill: Int32Array }[];
+  reserveShortfall: Int32Array;
+  /** Per demand charge, the column of its peak in this window (−1: no step of the window is in its window). */
+  peaks: Int32Array;
+}
+
+/** Row index per local step of the rows whose duals price energy and product. */
+export interface WindowRows {
+  balance: Int32Array;
+  stores: Int32Array[];
 }
 
 export interface BigMEntry {
@@ -22,105 +43,16 @@ export interface BuiltModel {
   model: ModelArrays;
   tags: ModelTags;
   columns: WindowColumns;
+  rows: WindowRows;
+  /** The objective's constant part (internal money units): add it to the solver's objective and bound. */
+  objectiveOffset: number;
   bigM: BigMEntry[];
   binaries: number;
 }
 
-class ModelAssembler {
-  private readonly cost = new GrowableArray(Float64Array);
-  private readonly lower = new GrowableArray(Float64Array);
-  private readonly upper = new GrowableArray(Float64Array);
-  private readonly integer = new GrowableArray(Int32Array);
-  private readonly colKind = new GrowableArray(Int32Array);
-  private readonly colStep = new GrowableArray(Int32Array);
-  private readonly colEntity = new GrowableArray(Int32Array);
-  private readonly rowLo = new GrowableArray(Float64Array);
-  private readonly rowHi = new GrowableArray(Float64Array);
-  private readonly rowKind = new GrowableArray(Int32Array);
-  private readonly rowStep = new GrowableArray(Int32Array);
-  private readonly rowEntity = new GrowableArray(Int32Array);
-  private readonly entryRow = new GrowableArray(Int32Array, 4096);
-  private readonly entryCol = new GrowableArray(Int32Array, 4096);
-  private readonly entryVal = new GrowableArray(Float64Array, 4096);
-  binaries = 0;
-
-  col(kind: ColKind, step: number, entity: number, cost: number, lower: number, upper: number, binary = false): number {
-    this.cost.push(cost);
-    this.lower.push(lower);
-    this.upper.push(upper);
-    this.integer.push(binary ? 1 : 0);
-    if (binary) this.binaries++;
-    this.colKind.push(kind);
-    this.colStep.push(step);
-    this.colEntity.push(entity);
-    return this.cost.length - 1;
-  }
-
-  row(kind: RowKind, step: number, entity: number, lower: number, upper: number): number {
-    this.rowLo.push(lower);
-    this.rowHi.push(upper);
-    this.rowKind.push(kind);
-    this.rowStep.push(step);
-    this.rowEntity.push(entity);
-    return this.rowLo.length - 1;
-  }
-
-  /** Adds `value·x[col]` to the newest row; each column appears at most once per row by construction. */
-  entry(col: number, value: number): void {
-    if (col < 0 || value === 0) return;
-    this.entryRow.push(this.rowLo.length - 1);
-    this.entryCol.push(col);
-    this.entryVal.push(value);
-  }
-
-  finish(): { model: ModelArrays; tags: ModelTags } {
-    const numCols = this.cost.length;
-    const numRows = this.rowLo.length;
-    const nnz = this.entryRow.length;
-    const starts = new Int32Array(numCols + 1);
-    const cols = this.entryCol.data;
-    for (let k = 0; k < nnz; k++) starts[cols[k] + 1]++;
-    for (let j = 0; j < numCols; j++) starts[j + 1] += starts[j];
-    const fill = starts.slice(0, numCols);
-    const indices = new Int32Array(nnz);
-    const values = new Float64Array(nnz);
-    const rows = this.entryRow.data;
-    const vals = this.entryVal.data;
-    // Entries arrive in row order, so each column's row indices come out sorted.
-    for (let k = 0; k < nnz; k++) {
-      const at = fill[cols[k]]++;
-      indices[at] = rows[k];
-      values[at] = vals[k];
-    }
-    return {
-      model: {
-        numCols,
-        numRows,
-        colCost: this.cost.toArray(),
-        colLower: this.lower.toArray(),
-        colUpper: this.upper.toArray(),
-        integrality: this.integer.toArray(),
-        rowLower: this.rowLo.toArray(),
-        rowUpper: this.rowHi.toArray(),
-        starts,
-        indices,
-        values,
-      },
-      tags: {
-        rowKind: Uint8Array.from(this.rowKind.toArray()),
-        rowStep: this.rowStep.toArray(),
-        rowEntity: Int16Array.from(this.rowEntity.toArray()),
-        colKind: Uint8Array.from(this.colKind.toArray()),
-        colStep: this.colStep.toArray(),
-        colEntity: Int16Array.from(this.colEntity.toArray()),
-      },
-    };
-  }
-}
-
 const filled = (n: number) => new Int32Array(n).fill(-1);
 
-/** Builds the SPEC.md §2 model of one window from its plan, in the plan's internal units. */
+/** Builds the SPEC.md §2 and §5 model of one window from its plan, in the plan's internal units. */
 export function buildWindowModel(plan: WindowPlan): BuiltModel {
   const { spec, window, start, scales, dh } = plan;
   const n = window.steps;
@@ -136,10 +68,23 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     exp: filled(n),
     unserved: filled(n),
     gridBinary: filled(n),
-    units: spec.units.map(() => ({ on: filled(n), start: filled(n), power: filled(n) })),
-    storage: spec.storage.map(() => ({ charge: filled(n), discharge: filled(n), soc: filled(n), binary: filled(n) })),
+    units: spec.units.map((u) => ({
+      on: filled(n),
+      start: filled(n),
+      power: filled(n),
+      slices: u.curve.length > 1 ? u.curve.map(() => filled(n)) : [],
+      coldStart: filled(n),
+      reserve: filled(n),
+    })),
+    storage: spec.storage.map(() => ({ charge: filled(n), discharge: filled(n), soc: filled(n), binary: filled(n), reserve: filled(n) })),
+    stores: spec.stores.map(() => ({ level: filled(n), shortfall: filled(n), spill: filled(n) })),
+    reserveShortfall: filled(n),
+    peaks: filled(spec.grid.demandCharges.length),
   };
+  const rows: WindowRows = { balance: filled(n), stores: spec.stores.map(() => filled(n)) };
   const penalty = spec.siteLoad.unservedPenaltyPerKwh;
+  const reservePenalty = spec.reserve?.shortfallPenaltyPerKwh ?? null;
+  const widths = spec.units.map(sliceWidths);
 
   for (let k = 0; k < n; k++) {
     const t = window.from + k;
@@ -162,13 +107,28 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       const up = plan.units[i];
       if (!up.hasBinary[k]) return;
       const c = cols.units[i];
-      c.on[k] = a.col(ColKind.UnitOn, k, i, 0, up.forcedOn[k], up.forcedOff[k] ? 0 : 1, integer);
-      const powerUb = tight ? up.bigM[k] : u.ratingKw;
-      const value = u.kind === 'flexible-load' ? perKwh(u.valuePerKwh) : -perKwh(u.costPerKwh);
-      c.power[k] = a.col(ColKind.UnitPower, k, i, value, 0, powerUb / P);
+      c.on[k] = a.col(ColKind.UnitOn, k, i, (-dh * u.noLoadCostPerHour) / M, up.forcedOn[k], up.forcedOff[k] ? 0 : 1, integer);
+      let powerUb = tight ? up.bigM[k] : u.ratingKw;
+      // Ramping up from the output before the window: the first step can rise by one ramp at most.
+      if (k === 0 && up.powerBefore !== null && up.ramp?.up != null) powerUb = Math.min(powerUb, up.powerBefore + up.ramp.up);
+      const fixedEnd = k === n - 1 ? (window.endState?.unitPowerKw[i] ?? null) : null;
+      const sliced = u.curve.length > 1;
+      const price = sliced ? 0 : u.kind === 'flexible-load' ? perKwh(u.curve[0].perKwh) : -perKwh(u.curve[0].perKwh);
+      c.power[k] = a.col(ColKind.UnitPower, k, i, price, fixedEnd === null ? 0 : fixedEnd / P, (fixedEnd ?? powerUb) / P);
+      if (sliced) {
+        u.curve.forEach((slice, s) => {
+          const value = u.kind === 'flexible-load' ? perKwh(slice.perKwh) : -perKwh(slice.perKwh);
+          c.slices[s][k] = a.col(ColKind.UnitSlice, k, i, value, 0, widths[i][s] / P);
+        });
+      }
       // Sparse sets leave out the start indicators that could only be 0 (the rows then read
       // y_k ≤ y_{k−1} there); the plain formulation keeps them, fixed at 0.
-      if (up.needsStart && !(sparse && up.noStart[k])) c.start[k] = a.col(ColKind.UnitStart, k, i, -u.startupCost / M, 0, up.noStart[k] ? 0 : 1);
+      if (up.needsStart && !(sparse && up.noStart[k])) c.start[k] = a.col(ColKind.UnitStart, k, i, -u.startupCost.hot / M, 0, up.noStart[k] ? 0 : 1);
+      if (coldStartPossible(plan, i, k)) c.coldStart[k] = a.col(ColKind.UnitColdStart, k, i, -(u.startupCost.cold - u.startupCost.hot) / M, 0, 1);
+      if (up.reserve[k]) {
+        const most = Math.min(plan.reserveKw[k], u.ratingKw - u.minStableKw);
+        if (most > 0) c.reserve[k] = a.col(ColKind.UnitReserve, k, i, 0, 0, most / P);
+      }
     });
 
     spec.storage.forEach((s, i) => {
@@ -184,12 +144,45 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       const socValue = last ? (sp.terminalValuePerKwh * P) / M : 0;
       c.soc[k] = a.col(ColKind.StorageSoc, k, i, socValue, socLo / P, (fixed ?? s.capacityKwh) / P);
       if (sp.hasBinary[k] && c.charge[k] >= 0 && c.discharge[k] >= 0) c.binary[k] = a.col(ColKind.StorageBinary, k, i, 0, 0, 1, integer);
+      if (sp.reserve[k]) {
+        const most = Math.min(plan.reserveKw[k], s.maxDischargeKw + s.maxChargeKw);
+        if (most > 0) c.reserve[k] = a.col(ColKind.StorageReserve, k, i, 0, 0, most / P);
+      }
     });
+
+    spec.stores.forEach((s, j) => {
+      const sp = plan.stores[j];
+      const Q = sp.scale;
+      const c = cols.stores[j];
+      const last = k === n - 1;
+      const lo = last ? (sp.endFixed ?? Math.max(s.min, sp.endFloor)) : s.min;
+      const hi = last ? (sp.endFixed ?? s.capacity) : s.capacity;
+      const value = last ? (sp.terminalValuePerUnit * Q) / M : 0;
+      c.level[k] = a.col(ColKind.StoreLevel, k, j, value, lo / Q, hi / Q);
+      const demand = s.demandPerHour[t];
+      if (s.shortfallPenaltyPerUnit !== null && demand > 0) {
+        c.shortfall[k] = a.col(ColKind.StoreShortfall, k, j, (-dh * s.shortfallPenaltyPerUnit * Q) / M, 0, demand / Q);
+      }
+      if (s.spillAllowed) c.spill[k] = a.col(ColKind.StoreSpill, k, j, 0, 0, spillRateBound(plan, j, t) / Q);
+    });
+
+    if (plan.reserveKw[k] > 0 && reservePenalty !== null) {
+      cols.reserveShortfall[k] = a.col(ColKind.ReserveShortfall, k, -1, -perKwh(reservePenalty), 0, plan.reserveKw[k] / P);
+    }
   }
+
+  spec.grid.demandCharges.forEach((charge, c) => {
+    const dp = plan.demandCharges[c];
+    if (!dp.steps.length) return;
+    // −price·(peak − peak so far): the peak so far is paid already, so it is a constant here.
+    const D = scales.demandPeakKw;
+    cols.peaks[c] = a.col(ColKind.DemandPeak, dp.steps[0], c, (-charge.pricePerKw * D) / M, dp.floorKw / D, dp.capKw / D);
+    a.objectiveOffset += (charge.pricePerKw * dp.floorKw) / M;
+  });
 
   for (let k = 0; k < n; k++) {
     const t = window.from + k;
-    a.row(RowKind.Balance, k, -1, spec.siteLoad.kw[t] / P, spec.siteLoad.kw[t] / P);
+    rows.balance[k] = a.row(RowKind.Balance, k, -1, spec.siteLoad.kw[t] / P, spec.siteLoad.kw[t] / P);
     a.entry(cols.supply[k], 1);
     a.entry(cols.imp[k], 1);
     a.entry(cols.unserved[k], 1);
@@ -201,7 +194,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     });
   }
 
-  spec.units.forEach((u, i) => addUnitRows(a, plan, cols, i, u.minStableKw / P, u.minUpSteps, u.minDownSteps));
+  spec.units.forEach((_, i) => addUnitRows(a, plan, cols, i));
 
   spec.storage.forEach((s, i) => {
     const c = cols.storage[i];
@@ -224,6 +217,18 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       a.entry(c.discharge[k], 1);
       a.entry(c.binary[k], sp.dischargeM[k] / P);
     }
+    for (let k = 0; k < n; k++) {
+      if (c.reserve[k] < 0) continue;
+      // What it can still give: its unused discharge plus the charging it can stop (SPEC §5) …
+      a.row(RowKind.StorageReserveFlow, k, i, -Infinity, s.maxDischargeKw / P);
+      a.entry(c.reserve[k], 1);
+      a.entry(c.charge[k], -1);
+      a.entry(c.discharge[k], 1);
+      // … for a whole step, from the energy above its minimum at the step's end.
+      a.row(RowKind.StorageReserveEnergy, k, i, -Infinity, (-s.dischargeEfficiency * s.minSocKwh) / P);
+      a.entry(c.reserve[k], dh);
+      a.entry(c.soc[k], -s.dischargeEfficiency);
+    }
   });
 
   for (let k = 0; k < n; k++) {
@@ -236,71 +241,71 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     a.entry(cols.gridBinary[k], plan.grid.exportM[k] / P);
   }
 
+  for (let k = 0; k < n; k++) {
+    if (plan.reserveKw[k] <= 0) continue;
+    a.row(RowKind.ReserveRequirement, k, -1, plan.reserveKw[k] / P, Infinity);
+    spec.units.forEach((_, i) => a.entry(cols.units[i].reserve[k], 1));
+    spec.storage.forEach((_, i) => a.entry(cols.storage[i].reserve[k], 1));
+    a.entry(cols.reserveShortfall[k], 1);
+  }
+
+  spec.grid.demandCharges.forEach((_, c) => {
+    if (cols.peaks[c] < 0) return;
+    for (const k of plan.demandCharges[c].steps) {
+      if (cols.imp[k] < 0) continue;
+      a.row(RowKind.DemandChargePeak, k, c, -Infinity, 0);
+      a.entry(cols.imp[k], 1);
+      a.entry(cols.peaks[c], -scales.demandPeakKw / P);
+    }
+  });
+
+  for (let k = 0; k < n; k++) {
+    if (!plan.supplyOnlyCap[k] || cols.imp[k] < 0) continue;
+    // imp ≤ (L − u) + Σ flexible loads + Σ batteries that may charge from the grid.
+    const L = spec.siteLoad.kw[window.from + k];
+    a.row(RowKind.SupplyOnlyImport, k, -1, -Infinity, L / P);
+    a.entry(cols.imp[k], 1);
+    a.entry(cols.unserved[k], 1);
+    spec.units.forEach((u, i) => {
+      if (u.kind === 'flexible-load') a.entry(cols.units[i].power[k], -1);
+    });
+    spec.storage.forEach((s, i) => {
+      if (!s.chargeFromSupplyOnly) a.entry(cols.storage[i].charge[k], -1);
+    });
+  }
+
+  spec.stores.forEach((s, j) => {
+    const Q = plan.stores[j].scale;
+    const c = cols.stores[j];
+    const keep = 1 - s.lossPerHour * dh;
+    const flow = (dh * P) / Q;
+    for (let k = 0; k < n; k++) {
+      // level_k − keep·level_{k−1} − Δh·(produced − consumed + short − spill) = Δh·(inflow_k − demand_k) (store units / Q).
+      const t = window.from + k;
+      const rhs = (dh * (s.inflowPerHour[t] - s.demandPerHour[t])) / Q + (k === 0 ? (keep * start.storeLevels[j]) / Q : 0);
+      rows.stores[j][k] = a.row(RowKind.StoreLevel, k, j, rhs, rhs);
+      a.entry(c.level[k], 1);
+      if (k > 0) a.entry(c.level[k - 1], -keep);
+      spec.units.forEach((u, i) => {
+        const made = u.produces?.store === j ? u.produces.perKwh : 0;
+        const used = u.consumes?.store === j ? u.consumes.perKwh : 0;
+        if (made !== used) a.entry(cols.units[i].power[k], -(made - used) * flow);
+      });
+      a.entry(c.shortfall[k], -dh);
+      a.entry(c.spill[k], dh);
+    }
+  });
+
   const { model, tags } = a.finish();
-  return { model, tags, columns: cols, bigM: collectBigM(plan, cols), binaries: a.binaries };
+  return { model, tags, columns: cols, rows, objectiveOffset: a.objectiveOffset, bigM: collectBigM(plan, cols), binaries: a.binaries };
 }
 
-function addUnitRows(
-  a: ModelAssembler,
-  plan: WindowPlan,
-  cols: WindowColumns,
-  i: number,
-  minStable: number,
-  minUp: number,
-  minDown: number,
-): void {
-  const n = plan.window.steps;
-  const P = plan.scales.powerKw;
-  const up = plan.units[i];
-  const { on, start, power } = cols.units[i];
-  for (let k = 0; k < n; k++) {
-    if (on[k] < 0) continue;
-    if (minStable > 0) {
-      a.row(RowKind.UnitMinStable, k, i, 0, Infinity);
-      a.entry(power[k], 1);
-      a.entry(on[k], -minStable);
-    }
-    a.row(RowKind.UnitMaxPower, k, i, -Infinity, 0);
-    a.entry(power[k], 1);
-    a.entry(on[k], -up.bigM[k] / P);
-  }
-  if (!up.needsStart) return;
-  for (let k = 0; k < n; k++) {
-    if (on[k] < 0) continue;
-    // z_k ≥ y_k − y_{k−1}; a step without a binary is off, so a start after it counts as new.
-    const prevOn = k === 0 ? (up.onBefore ? 1 : 0) : on[k - 1] >= 0 ? -1 : 0;
-    if (prevOn === 1) continue;
-    a.row(RowKind.UnitStart, k, i, 0, Infinity);
-    a.entry(start[k], 1);
-    a.entry(on[k], -1);
-    if (prevOn === -1) a.entry(on[k - 1], 1);
-  }
-  if (minUp > 1) {
-    // A start in the last minUp steps keeps the unit on now: Σ z_τ ≤ y_k (τ = k−minUp+1 … k).
-    for (let k = 0; k < n; k++) {
-      if (on[k] < 0) continue;
-      let count = 0;
-      for (let tau = Math.max(0, k - minUp + 1); tau < k; tau++) if (start[tau] >= 0) count++;
-      if (count === 0) continue;
-      a.row(RowKind.UnitMinUp, k, i, -Infinity, 0);
-      for (let tau = Math.max(0, k - minUp + 1); tau <= k; tau++) a.entry(start[tau], 1);
-      a.entry(on[k], -1);
-    }
-  }
-  if (minDown > 1) {
-    // On at k−minDown ⇒ no start in k−minDown+1 … k (a stop must last minDown steps):
-    // Σ z_τ + y_{k−minDown} ≤ 1. Earlier history is in the plan's noStartBefore.
-    for (let k = minDown; k < n; k++) {
-      const before = on[k - minDown];
-      if (before < 0) continue;
-      let count = 0;
-      for (let tau = k - minDown + 1; tau <= k; tau++) if (start[tau] >= 0) count++;
-      if (count === 0) continue;
-      a.row(RowKind.UnitMinDown, k, i, -Infinity, 1);
-      for (let tau = k - minDown + 1; tau <= k; tau++) a.entry(start[tau], 1);
-      a.entry(before, 1);
-    }
-  }
+/** The most product a store could have to spill in one step (its units per hour): a full store plus all its producers at rating. */
+function spillRateBound(plan: WindowPlan, j: number, t: number): number {
+  const { spec, dh } = plan;
+  let made = 0;
+  for (const u of spec.units) if (u.produces?.store === j) made += u.produces.perKwh * u.ratingKw;
+  return spec.stores[j].capacity / dh + made + spec.stores[j].inflowPerHour[t];
 }
 
 function maxWhere(values: Float64Array, present: Int32Array): number {
@@ -314,6 +319,7 @@ function collectBigM(plan: WindowPlan, cols: WindowColumns): BigMEntry[] {
   plan.spec.units.forEach((u, i) => {
     const value = maxWhere(plan.units[i].bigM, cols.units[i].on);
     if (value > 0) list.push({ where: `${u.id} capacity`, value });
+    if (u.kind === 'generator' && cols.units[i].reserve.some((c) => c >= 0)) list.push({ where: `${u.id} reserve headroom (rating)`, value: u.ratingKw });
   });
   plan.spec.storage.forEach((s, i) => {
     const b = cols.storage[i].binary;
@@ -326,5 +332,8 @@ function collectBigM(plan: WindowPlan, cols: WindowColumns): BigMEntry[] {
   const exp = maxWhere(plan.grid.exportM, cols.gridBinary);
   if (imp > 0) list.push({ where: 'grid import/export exclusivity (import side)', value: imp });
   if (exp > 0) list.push({ where: 'grid import/export exclusivity (export side)', value: exp });
+  plan.spec.grid.demandCharges.forEach((c, i) => {
+    if (cols.peaks[i] >= 0) list.push({ where: `${c.id} demand-charge peak (import limit)`, value: plan.demandCharges[i].capKw });
+  });
   return list;
 }

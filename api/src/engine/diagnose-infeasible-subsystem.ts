@@ -9,10 +9,42 @@ interface Part {
   what: string;
 }
 
+function curveField(spec: ResolvedSiteSpec, entity: number): string {
+  return spec.units[entity].kind === 'generator' ? 'costCurve' : 'valueCurve';
+}
+
+function supplyOnlyPointer(spec: ResolvedSiteSpec): string {
+  return `/storage/${Math.max(0, spec.storage.findIndex((s) => s.chargeFromSupplyOnly))}/chargeFromSupplyOnly`;
+}
+
 function rowPart(spec: ResolvedSiteSpec, kind: RowKind, entity: number): Part {
   const unit = spec.units[entity];
   const storage = spec.storage[entity];
+  const store = spec.stores[entity];
   switch (kind) {
+    case RowKind.UnitCurve:
+      return { pointer: `/units/${entity}/${curveField(spec, entity)}`, what: `unit "${unit.id}" output split over its curve` };
+    case RowKind.UnitColdStart:
+      return { pointer: `/units/${entity}/startupCost`, what: `unit "${unit.id}" hot and cold starts` };
+    case RowKind.UnitRampUp:
+      return { pointer: `/units/${entity}/rampUpKwPerMin`, what: `unit "${unit.id}" ramp-up limit` };
+    case RowKind.UnitRampDown:
+      return { pointer: `/units/${entity}/rampDownKwPerMin`, what: `unit "${unit.id}" ramp-down limit` };
+    case RowKind.UnitStartExact:
+      return { pointer: `/units/${entity}/initial`, what: `unit "${unit.id}" starts and stops` };
+    case RowKind.ReserveRequirement:
+      return { pointer: '/reserve/upKw', what: 'the spinning reserve requirement' };
+    case RowKind.UnitReserve:
+      return { pointer: `/units/${entity}/providesReserve`, what: `unit "${unit.id}" reserve headroom` };
+    case RowKind.StorageReserveFlow:
+    case RowKind.StorageReserveEnergy:
+      return { pointer: `/storage/${entity}/providesReserve`, what: `storage "${storage.id}" reserve (power and energy above its minimum)` };
+    case RowKind.DemandChargePeak:
+      return { pointer: `/grid/demandCharges/${entity}`, what: `demand charge "${spec.grid.demandCharges[entity].id}" peak` };
+    case RowKind.SupplyOnlyImport:
+      return { pointer: supplyOnlyPointer(spec), what: 'import kept from a battery that charges from supply only' };
+    case RowKind.StoreLevel:
+      return { pointer: `/stores/${entity}/demandPerHour`, what: `store "${store.id}" level balance (production, consumption and demand)` };
     case RowKind.Balance:
       return { pointer: '/siteLoad/kw', what: 'the power balance (site load against supply, grid, units and storage)' };
     case RowKind.UnitMinStable:
@@ -38,7 +70,28 @@ function rowPart(spec: ResolvedSiteSpec, kind: RowKind, entity: number): Part {
 function colPart(spec: ResolvedSiteSpec, kind: ColKind, entity: number, lastStep: boolean): Part {
   const unit = spec.units[entity];
   const storage = spec.storage[entity];
+  const store = spec.stores[entity];
   switch (kind) {
+    case ColKind.UnitSlice:
+      return { pointer: `/units/${entity}/${curveField(spec, entity)}`, what: `unit "${unit.id}" curve slices` };
+    case ColKind.UnitColdStart:
+      return { pointer: `/units/${entity}/startupCost`, what: `unit "${unit.id}" cold starts` };
+    case ColKind.UnitReserve:
+      return { pointer: `/units/${entity}/providesReserve`, what: `unit "${unit.id}" reserve` };
+    case ColKind.StorageReserve:
+      return { pointer: `/storage/${entity}/providesReserve`, what: `storage "${storage.id}" reserve` };
+    case ColKind.ReserveShortfall:
+      return { pointer: '/reserve/shortfallPenaltyPerKwh', what: 'reserve shortfall (at most the requirement)' };
+    case ColKind.DemandPeak:
+      return { pointer: `/grid/demandCharges/${entity}/existingPeakKw`, what: `demand charge "${spec.grid.demandCharges[entity].id}" peak` };
+    case ColKind.StoreLevel:
+      return lastStep && store.final !== null
+        ? { pointer: `/stores/${entity}/final`, what: `store "${store.id}" final level` }
+        : { pointer: `/stores/${entity}/capacity`, what: `store "${store.id}" level limits (min and capacity)` };
+    case ColKind.StoreShortfall:
+      return { pointer: `/stores/${entity}/demandPerHour`, what: `store "${store.id}" shortfall (at most the demand)` };
+    case ColKind.StoreSpill:
+      return { pointer: `/stores/${entity}/spillAllowed`, what: `store "${store.id}" spill` };
     case ColKind.Supply:
       return { pointer: '/supply/availableKw', what: 'available supply' };
     case ColKind.Import:

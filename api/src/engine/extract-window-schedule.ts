@@ -66,6 +66,34 @@ export function extractWindowSchedule(plan: WindowPlan, built: BuiltModel, x: Fl
       consumed += charge;
     });
 
+    spec.stores.forEach((s, j) => {
+      const c = cols.stores[j];
+      const Q = plan.stores[j].scale;
+      const storeTol = OUTPUT_CLEANING_TOLERANCE * Q;
+      const rate = (col: number, ub: number) => {
+        if (col < 0) return 0;
+        const v = x[col] * Q;
+        return v <= storeTol ? 0 : v >= ub - storeTol ? ub : v;
+      };
+      const shortfall = rate(c.shortfall[k], s.demandPerHour[t]);
+      const spill = rate(c.spill[k], Infinity);
+      let flow = shortfall - spill - s.demandPerHour[t] + s.inflowPerHour[t];
+      spec.units.forEach((u, i) => {
+        if (u.produces?.store === j) flow += u.produces.perKwh * out.units[i].power[t];
+        if (u.consumes?.store === j) flow -= u.consumes.perKwh * out.units[i].power[t];
+      });
+      const prev = t === 0 ? s.initial : t === window.from ? plan.start.storeLevels[j] : out.stores[j].level[t - 1];
+      // Re-accumulated from the cleaned flows so the store equation holds exactly.
+      let level = (1 - s.lossPerHour * dh) * prev + dh * flow;
+      const levelTol = storeTol * dh;
+      for (const mark of [s.capacity, s.min, s.final, k === window.steps - 1 ? plan.stores[j].endFixed : null, 0]) {
+        if (mark !== null && Math.abs(level - mark) <= levelTol) level = mark;
+      }
+      out.stores[j].level[t] = level;
+      out.stores[j].shortfall[t] = shortfall;
+      out.stores[j].spill[t] = spill;
+    });
+
     // The balance holds within tolerance; let curtailment take up the remainder exactly.
     const used = consumed - produced;
     out.supplyUsed[t] = Math.abs(used) <= tol ? 0 : Math.abs(used - W) <= tol ? W : Math.min(W, Math.max(0, used));

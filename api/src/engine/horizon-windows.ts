@@ -40,13 +40,15 @@ export interface RollingSegment {
  * horizon has fewer than twice that many). A segment's last window ends where the next segment
  * starts; the state there is fixed in advance (solve-rolling.ts), so the segments need not
  * wait for each other. The cut depends on the spec alone, so a spec gets the same schedule on
- * any machine, however many solver threads it has.
+ * any machine, however many solver threads it has. A horizon with demand charges is never cut.
  */
 export function rollingSegments(spec: ResolvedSiteSpec): RollingSegment[] {
   const T = spec.horizon.steps;
   const windows = rollingWindows(spec);
   const per = spec.solver.window.segmentWindows;
-  if (per === 0 || windows.length < 2 * per) return [{ from: 0, to: T, windows }];
+  // A demand charge is paid on the highest import of the whole horizon: a segment cannot know
+  // the peak its predecessors reach, so such a horizon is solved as one sequence.
+  if (per === 0 || windows.length < 2 * per || spec.grid.demandCharges.length > 0) return [{ from: 0, to: T, windows }];
   const count = Math.floor(windows.length / per);
   const cuts = Array.from({ length: count - 1 }, (_, k) => windows[(k + 1) * per].from);
   const bounds = [0, ...cuts, T];

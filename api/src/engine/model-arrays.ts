@@ -27,6 +27,18 @@ export enum RowKind {
   StorageDischargeExclusive,
   GridImportExclusive,
   GridExportExclusive,
+  UnitCurve,
+  UnitColdStart,
+  UnitRampUp,
+  UnitRampDown,
+  UnitStartExact,
+  ReserveRequirement,
+  UnitReserve,
+  StorageReserveFlow,
+  StorageReserveEnergy,
+  DemandChargePeak,
+  SupplyOnlyImport,
+  StoreLevel,
 }
 
 export enum ColKind {
@@ -42,9 +54,18 @@ export enum ColKind {
   StorageDischarge,
   StorageSoc,
   StorageBinary,
+  UnitSlice,
+  UnitColdStart,
+  UnitReserve,
+  StorageReserve,
+  ReserveShortfall,
+  DemandPeak,
+  StoreLevel,
+  StoreShortfall,
+  StoreSpill,
 }
 
-/** Per row and per column: kind, local step and the index of the unit or storage (−1 for none). */
+/** Per row and per column: kind, local step and the index of the unit, storage, store or demand charge (−1 for none). */
 export interface ModelTags {
   rowKind: Uint8Array;
   rowStep: Int32Array;

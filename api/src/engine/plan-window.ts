@@ -1,5 +1,8 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { chooseScales, type Scales } from './choose-scales';
+import { demandChargeSteps } from './demand-charge-steps';
+import { storeLevelFloors } from './store-floors';
+import { islandEnergyValue, lookaheadEnergyValue, storeProductValues } from './terminal-values';
 import { TINY } from './numerics';
 import { ratingSums, storageStepLimits } from './site-ratings';
 
@@ -13,17 +16,26 @@ export interface HorizonWindow {
   endState?: WindowEndState;
 }
 
-/** A state fixed at a window's end: each storage's SOC and each unit's last on/off values. */
+/** A state fixed at a window's end: each storage's SOC and store's level, each unit's last on/off values and output. */
 export interface WindowEndState {
   socKwh: number[];
+  storeLevels: number[];
   /** Per unit, its on/off values over the window's last `tail.length` steps. */
   unitTails: Uint8Array[];
+  /** Per unit, its output at the window's last step where a ramp limit carries it on; else null. */
+  unitPowerKw: (number | null)[];
 }
 
-/** The state a window starts from: the spec's initial state, or what the previous window committed. */
+/**
+ * The state a window starts from: the spec's initial state, or what the previous window
+ * committed. `powerKw` is a unit's output at the step before (null: unknown or off), and
+ * `peaksKw` the highest import so far in each demand charge's window (its `existingPeakKw` at first).
+ */
 export interface WindowStartState {
-  units: { on: boolean; stepsInState: number }[];
+  units: { on: boolean; stepsInState: number; powerKw: number | null }[];
   socKwh: number[];
+  storeLevels: number[];
+  peaksKw: number[];
 }
 
 export interface UnitPlan {
@@ -45,6 +57,16 @@ export interface UnitPlan {
   noStart: Uint8Array;
   /** Whether the unit was on just before the window (y at step −1). */
   onBefore: boolean;
+  /** Ramp limits per step in kW (rate × step length) and the most a start may reach or a stop leave from; null: no limit. */
+  ramp: { up: number | null; down: number | null; startAllowance: number; stopAllowance: number } | null;
+  /** Output at step −1 when the unit was on and its ramp limits reach back to it; else null. */
+  powerBefore: number | null;
+  /** Hot/cold starts are told apart (cold costs more): look back this many steps for an on step. */
+  coldLookback: number;
+  /** On/off at steps −1, −2, … (index 0 is step −1), as far back as any rule reads. */
+  history: Uint8Array;
+  /** 1 where the unit holds spinning reserve. */
+  reserve: Uint8Array;
 }
 
 export interface StoragePlan {
@@ -57,6 +79,27 @@ export interface StoragePlan {
   endSocFixedKwh: number | null;
   /** Money per kWh credited for energy left above minSoc at the end of a non-final window. */
   terminalValuePerKwh: number;
+  /** 1 where the battery holds spinning reserve. */
+  reserve: Uint8Array;
+}
+
+export interface StorePlan {
+  /** Internal unit of the store's level and flows: a level of 1 in the model is `scale` units. */
+  scale: number;
+  /** Lower bound on the level after the window's last step (the horizon's floor, or the final target). */
+  endFloor: number;
+  /** Level after the window's last step when the window must end in a given state, else null. */
+  endFixed: number | null;
+  /** Money per unit credited for product left at the end of a non-final window. */
+  terminalValuePerUnit: number;
+}
+
+export interface DemandChargePlan {
+  /** Local steps of the window whose import sets this charge's peak. */
+  steps: number[];
+  /** The peak reached so far (the charge's floor here) and the most the peak can reach in the window. */
+  floorKw: number;
+  capKw: number;
 }
 
 export interface GridPlan {
@@ -70,12 +113,20 @@ export interface GridPlan {
 
 export interface WindowPlan {
   spec: ResolvedSiteSpec;
+  /** The spec-wide figures the plan was made with. */
+  facts: SiteFacts;
   window: HorizonWindow;
   start: WindowStartState;
   scales: Scales;
   dh: number;
   units: UnitPlan[];
   storage: StoragePlan[];
+  stores: StorePlan[];
+  demandCharges: DemandChargePlan[];
+  /** Per local step, the reserve the site must hold (kW); all 0 without a reserve requirement. */
+  reserveKw: Float64Array;
+  /** Per local step, whether import is capped because a battery charges from supply only. */
+  supplyOnlyCap: Uint8Array;
   grid: GridPlan;
   /** The binaries the plain formulation would have, before pruning and relaxation. */
   binariesBefore: number;
@@ -99,31 +150,6 @@ function looseSiteBound(spec: ResolvedSiteSpec): number {
 }
 
 /**
- * What island energy is worth to the site, used only to price energy left in storage at a
- * window's end: the fuel it saves, or the best flexible use, or the unserved-load penalty. A
- * hard load on an island without generators has no price, yet energy kept for it may be all
- * that serves it after dark: it is valued above every per-kWh figure the spec states, so a
- * window ends with its storage as full as supply allows rather than indifferently empty.
- */
-function islandEnergyValue(spec: ResolvedSiteSpec): number {
-  const gens = spec.units.filter((u) => u.kind === 'generator');
-  if (gens.length) return Math.max(0, Math.min(...gens.map((g) => g.costPerKwh)));
-  const flex = spec.units.filter((u) => u.kind === 'flexible-load');
-  const bestFlex = flex.length ? Math.max(0, ...flex.map((f) => f.valuePerKwh)) : 0;
-  const penalty = spec.siteLoad.unservedPenaltyPerKwh;
-  if (penalty !== null || !spec.siteLoad.kw.some((kw) => kw > 0)) return Math.max(bestFlex, penalty ?? 0);
-  const stated = Math.max(bestFlex, ...spec.storage.map((s) => s.cycleCostPerKwh));
-  return stated > 0 ? 2 * stated : 1;
-}
-
-/** The value of a kWh at step t: the import price where the site can import, else the export price, else the island's value. */
-function energyValueAt(spec: ResolvedSiteSpec, t: number, island: number): number {
-  if (spec.grid.importLimitKw > 0) return spec.grid.importPrice[t];
-  if (spec.grid.exportLimitKw > 0) return spec.grid.exportPrice[t];
-  return island;
-}
-
-/**
  * What planning reads from the whole horizon. A solve computes it once and plans every window
  * with it: a rolling year would otherwise rescan its 35 040 steps for each of its windows
  * (measured: 4 ms a window).
@@ -134,21 +160,23 @@ export interface SiteFacts {
   loose: number;
   /** What island energy is worth (islandEnergyValue); 0 without storage, which alone needs it. */
   island: number;
+  /** Per demand charge, 1 at the steps its window covers. */
+  chargeSteps: Uint8Array[];
+  storeFloors: Float64Array[];
+  /** Per store, what a unit of its product left at a non-final window's end is credited at (storeProductValues). */
+  storeValues: number[];
 }
 
 export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+  const island = spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0;
   return {
     scales: chooseScales(spec, spec.solver.reductions.scaling),
     loose: looseSiteBound(spec),
-    island: spec.storage.length ? islandEnergyValue(spec) : 0,
+    island,
+    chargeSteps: demandChargeSteps(spec),
+    storeFloors: storeLevelFloors(spec),
+    storeValues: storeProductValues(spec, island),
   };
-}
-
-function median(values: number[]): number {
-  if (!values.length) return 0;
-  const sorted = values.slice().sort((a, b) => a - b);
-  const mid = sorted.length >> 1;
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
 }
 
 export interface ForcedBinaries {
@@ -159,7 +187,7 @@ export interface ForcedBinaries {
 
 /**
  * Plans one window: the index sets, every big-M, the scales, which exclusivity binaries may be
- * dropped, which steps keep their binaries, and how storage is valued at the window's end.
+ * dropped, which steps keep their binaries, and how storage and stores are valued at the window's end.
  */
 export function planWindow(
   spec: ResolvedSiteSpec,
@@ -171,7 +199,7 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const { scales, loose, island } = facts;
+  const { scales, loose, island, chargeSteps, storeFloors, storeValues } = facts;
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
@@ -185,11 +213,13 @@ export function planWindow(
   // absorbed from a producer (generator, import) at each step, from the balance row's bounds.
   const inflowExclImport = new Float64Array(n);
   const sink = new Float64Array(n);
+  const reserveKw = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     const t = window.from + k;
     const load = spec.siteLoad.kw[t];
     inflowExclImport[k] = spec.supply.availableKw[t] + sums.generatorKw + sums.dischargeKw - (hardLoad ? load : 0);
     sink[k] = load + sums.flexibleLoadKw + sums.chargeKw;
+    reserveKw[k] = spec.reserve ? spec.reserve.upKw[t] : 0;
   }
 
   let binariesBefore = 0;
@@ -265,35 +295,58 @@ export function planWindow(
       if (nextPruned - k < u.minUpSteps) noStart[k] = 1;
       if (!hasBinary[k]) nextPruned = k;
     }
+    const ramp = rampPlan(u, spec.horizon.stepMinutes);
+    const { hot, cold, coldAfterSteps } = u.startupCost;
+    const coldLookback = coldAfterSteps !== null && cold > hot ? coldAfterSteps + 1 : 0;
+    const history = new Uint8Array(Math.max(coldLookback, 1));
+    // Before step 0 the unit held its state for stepsInState steps and the other state before that.
+    for (let m = 1; m <= history.length; m++) {
+      const held = m <= initial.stepsInState;
+      history[m - 1] = (held ? initial.on : !initial.on) ? 1 : 0;
+    }
+    const reserve = new Uint8Array(n);
+    if (u.providesReserve) for (let k = 0; k < n; k++) reserve[k] = reserveKw[k] > 0 && hasBinary[k] ? 1 : 0;
     return {
       hasBinary,
       forcedOn,
       forcedOff,
       bigM,
-      needsStart: u.startupCost > 0 || u.minUpSteps > 1 || u.minDownSteps > 1,
+      needsStart: u.startupCost.hot > 0 || u.minUpSteps > 1 || u.minDownSteps > 1 || ramp !== null,
       noStart,
       onBefore: initial.on,
+      ramp,
+      powerBefore: initial.on && ramp ? initial.powerKw : null,
+      coldLookback,
+      history,
+      reserve,
     };
   });
 
-  const lookahead: number[] = [];
-  for (let k = window.commit; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k, island));
-  if (!lookahead.length) for (let k = 0; k < n; k++) lookahead.push(energyValueAt(spec, window.from + k, island));
-  const energyValue = Math.max(0, median(lookahead));
+  const energyValue = lookaheadEnergyValue(spec, window.from, n, window.commit, island);
+  const credits = !window.isFinal && !window.endState;
+  // A battery that charges from supply only caps import at what the other consumers take; an
+  // unflagged battery that charged and discharged at once could pass import on to it, so
+  // theirs stay exclusive.
+  const anySupplyOnly = spec.storage.some((s) => s.chargeFromSupplyOnly && s.maxChargeKw > 0);
 
   const storage: StoragePlan[] = spec.storage.map((s, i) => {
     const hasBinary = new Uint8Array(n);
     const chargeM = new Float64Array(n);
     const dischargeM = new Float64Array(n);
+    const reserve = new Uint8Array(n);
     const lossless = s.chargeEfficiency * s.dischargeEfficiency >= 1;
+    // Burning energy by charging and discharging at once can make room for charging later, which
+    // counts as reserve; netting the two afterwards would take that reserve away again.
+    const holdsReserve = s.providesReserve && reserveKw.some((r) => r > 0);
     for (let k = 0; k < n; k++) {
       const t = window.from + k;
       chargeM[k] = reductions.tightBigM ? limits[i].charge : loose;
       dischargeM[k] = reductions.tightBigM ? limits[i].discharge : loose;
+      if (s.providesReserve && reserveKw[k] > 0) reserve[k] = 1;
       if (s.maxChargeKw <= 0 || s.maxDischargeKw <= 0) continue;
       if (k < integerSteps) binariesBefore++;
-      hasBinary[k] =
-        !reductions.relaxExclusivity || (!lossless && energyCanHaveNegativeValue(spec, t)) || forced?.storage[i].has(k) ? 1 : 0;
+      const mustStay = (anySupplyOnly && !s.chargeFromSupplyOnly) || (!lossless && (holdsReserve || energyCanHaveNegativeValue(spec, t)));
+      hasBinary[k] = !reductions.relaxExclusivity || mustStay || forced?.storage[i].has(k) ? 1 : 0;
     }
     return {
       hasBinary,
@@ -304,11 +357,47 @@ export function planWindow(
       // Non-final windows credit stored energy at what it would fetch later (discharge losses
       // included), so they neither drain storage at their end nor hoard energy worth less
       // than it cost. The final window has no later, and a fixed end SOC leaves nothing to value.
-      terminalValuePerKwh: window.isFinal || window.endState ? 0 : energyValue * s.dischargeEfficiency,
+      terminalValuePerKwh: credits ? energyValue * s.dischargeEfficiency : 0,
+      reserve,
     };
   });
 
-  return { spec, window, start, scales, dh, units, storage, grid, binariesBefore, integerSteps };
+  const lastStep = window.from + n - 1;
+  const stores: StorePlan[] = spec.stores.map((s, j) => ({
+    scale: scales.stores[j],
+    endFloor: Math.min(s.capacity, storeFloors[j][lastStep]),
+    endFixed: window.endState ? window.endState.storeLevels[j] : null,
+    terminalValuePerUnit: credits ? storeValues[j] : 0,
+  }));
+
+  const demandCharges: DemandChargePlan[] = spec.grid.demandCharges.map((_, c) => {
+    const steps: number[] = [];
+    let cap = start.peaksKw[c];
+    for (let k = 0; k < n; k++) {
+      if (!chargeSteps[c][window.from + k]) continue;
+      steps.push(k);
+      cap = Math.max(cap, grid.importUb[k]);
+    }
+    return { steps, floorKw: start.peaksKw[c], capKw: cap };
+  });
+
+  const supplyOnlyCap = new Uint8Array(n);
+  if (anySupplyOnly) for (let k = 0; k < n; k++) supplyOnlyCap[k] = grid.importUb[k] > 0 ? 1 : 0;
+
+  return { spec, facts, window, start, scales, dh, units, storage, stores, demandCharges, reserveKw, supplyOnlyCap, grid, binariesBefore, integerSteps };
+}
+
+/** A unit's ramp limits in kW per step, with the start and stop allowances of SPEC §5; null without any. */
+function rampPlan(u: ResolvedSiteSpec['units'][number], stepMinutes: number): UnitPlan['ramp'] {
+  if (u.rampUpKwPerMin === null && u.rampDownKwPerMin === null) return null;
+  const up = u.rampUpKwPerMin === null ? null : u.rampUpKwPerMin * stepMinutes;
+  const down = u.rampDownKwPerMin === null ? null : u.rampDownKwPerMin * stepMinutes;
+  return {
+    up,
+    down,
+    startAllowance: up === null ? u.ratingKw : Math.min(u.ratingKw, Math.max(u.minStableKw, up)),
+    stopAllowance: down === null ? u.ratingKw : Math.min(u.ratingKw, Math.max(u.minStableKw, down)),
+  };
 }
 
 /**
@@ -324,7 +413,7 @@ function energyCanHaveNegativeValue(spec: ResolvedSiteSpec, t: number): boolean 
   let heldKw = 0;
   for (const u of spec.units) {
     if (u.kind !== 'generator') continue;
-    if (u.costPerKwh < 0) return true;
+    if (u.curve.some((slice) => slice.perKwh < 0)) return true;
     heldKw += u.minStableKw;
   }
   const exportable = spec.grid.exportPrice[t] >= 0 ? spec.grid.exportLimitKw : 0;

@@ -37,24 +37,29 @@ async function probeSeam(ctx: SolveContext, b: number, probes: WindowRecord[]): 
   const steps = Math.min(windowSteps, T - from);
   const window: HorizonWindow = { from, steps, commit: b - from, isFinal: from + steps >= T };
   const guess: WindowStartState = {
-    units: spec.units.map((u) => ({ on: false, stepsInState: memoryOf(u) })),
+    units: spec.units.map((u) => ({ on: false, stepsInState: memoryOf(u), powerKw: null })),
     socKwh: spec.storage.map((s) => s.initialSocKwh),
+    storeLevels: spec.stores.map((s) => s.initial),
+    peaksKw: spec.grid.demandCharges.map((c) => c.existingPeakKw),
   };
   const scratch = createScheduleBuffers(spec);
   const result = await solveBudgetedWindow(ctx, window, guess, scratch);
   probes.push({ kind: 'seam-probe', window, result });
   if (endedWithoutSchedule(result)) return null;
-  const start = advanceState(spec, guess, scratch, from, b);
+  const start = advanceState(spec, ctx.facts.chargeSteps, guess, scratch, from, b);
   const end: WindowEndState = {
     socKwh: start.socKwh.slice(),
+    storeLevels: start.storeLevels.slice(),
     unitTails: spec.units.map((u, i) => scratch.units[i].on.slice(b - Math.min(memoryOf(u), b - from), b)),
+    // A ramp carries the output across the seam, so the segment before must end at it too.
+    unitPowerKw: spec.units.map((u, i) => (u.rampUpKwPerMin !== null || u.rampDownKwPerMin !== null) && start.units[i].on ? start.units[i].powerKw : null),
   };
   return { start, end };
 }
 
-/** A segment ended in the state its successor started from. */
+/** A segment ended in the state its successor started from (SOC, levels and ramped outputs within a millionth of their range). */
 function metSeam(spec: ResolvedSiteSpec, state: WindowStartState, seam: Seam): boolean {
-  return sameState(spec, state, seam.start, (i) => SEAM_SOC_TOLERANCE * Math.max(1, spec.storage[i].capacityKwh));
+  return sameState(spec, state, seam.start, SEAM_SOC_TOLERANCE);
 }
 
 /**

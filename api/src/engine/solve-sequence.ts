@@ -74,7 +74,7 @@ export async function solveSequence(
     const result = await solveBudgetedWindow(ctx, window, state, ctx.buffers);
     records.push({ kind: 'window', window, result });
     if (endedWithoutSchedule(result)) return { records, statesBefore, state, failedAt: i };
-    state = advanceState(ctx.spec, state, ctx.buffers, window.from, window.from + window.commit);
+    state = advanceState(ctx.spec, ctx.facts.chargeSteps, state, ctx.buffers, window.from, window.from + window.commit);
   }
   return { records, statesBefore, state, failedAt: null };
 }

@@ -5,7 +5,8 @@ import { initialState } from './carry-state';
 import { chooseSolveMode } from './choose-solve-mode';
 import { coefficientRangeWarning, mergeRanges, type CoefficientRanges } from './coefficient-ranges';
 import { Deadline } from './deadline';
-import { evaluateObjective } from './evaluate-objective';
+import { VERIFY_RELATIVE_TOLERANCE } from './numerics';
+import { objectiveTerms, sumTerms } from './evaluate-objective';
 import { monolithicWindow, rollingSegments } from './horizon-windows';
 import { siteFacts } from './plan-window';
 import { precheckInfeasibility } from './precheck-infeasibility';
@@ -60,7 +61,7 @@ function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, sol
     bigM: [],
     reductions: { ...spec.solver.reductions },
     segments: 1,
-    scale: { powerKw: 1, money: 1 },
+    scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])), demandPeakKw: 1 },
     buildSeconds: 0,
     solveSeconds: 0,
     solver: { name: solver.name, version: solver.version },
@@ -77,7 +78,7 @@ function mergeBigM(into: Map<string, number>, list: BigMEntry[]): void {
  * start with): counts and times summed, coefficient ranges and big-M values merged. Parallel
  * segments overlap in time, so the summed seconds measure effort and can exceed the wall time.
  */
-function addWindows(report: ModelReport, records: WindowRecord[]): void {
+function addWindows(spec: ResolvedSiteSpec, report: ModelReport, records: WindowRecord[]): void {
   const bigM = new Map<string, number>();
   let ranges: CoefficientRanges | null = null;
   const order = (r: WindowRecord) => (r.kind === 'window' ? 0 : 1);
@@ -100,7 +101,12 @@ function addWindows(report: ModelReport, records: WindowRecord[]): void {
     report.nonzeros += r.nonzeros;
     report.buildSeconds += r.buildSeconds;
     report.solveSeconds += r.solveSeconds;
-    report.scale = r.scale;
+    report.scale = {
+      powerKw: r.scale.powerKw,
+      money: r.scale.money,
+      stores: Object.fromEntries(spec.stores.map((s, j) => [s.id, r.scale.stores[j]])),
+      demandPeakKw: r.scale.demandPeakKw,
+    };
     ranges = mergeRanges(ranges, r.ranges);
     mergeBigM(bigM, r.bigM);
   }
@@ -193,7 +199,7 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Pro
     solved = { records: end.records, failed: failedRecord(end), segments: 1 };
   }
   report.segments = solved.segments;
-  addWindows(report, solved.records);
+  addWindows(spec, report, solved.records);
   const numerics = coefficientRangeWarning(spec, offBandWindows(solved.records));
   if (numerics) warnings.push(numerics);
   if (solved.failed) return noSchedule(solved.failed.result.outcome, failureWarnings(spec, solved.failed));
@@ -201,17 +207,25 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Pro
   const schedule = toSchedule(spec, buffers);
   const check = verifySchedule(spec, schedule);
   if (!check.ok) throw new ScheduleVerificationError(check.violations);
+  const terms = objectiveTerms(spec, ctx.facts.chargeSteps, buffers);
+  const value = sumTerms(terms);
+  // The verifier recomputes the objective from the schedule alone, term by term; the two must agree.
+  if (Math.abs(check.objective - value) > VERIFY_RELATIVE_TOLERANCE * Math.max(1, Math.abs(value))) {
+    throw new ScheduleVerificationError([
+      { code: 'objective-mismatch', message: `the schedule's objective is ${value}; recomputed independently it is ${check.objective}` },
+    ]);
+  }
   // A schedule stitched from windows is feasible, never proved optimal for the whole horizon.
   const whole = solved.records.length === 1 && solved.records[0].window.steps === spec.horizon.steps;
   const single = whole ? solved.records[0].result : null;
   return {
     outcome: single?.outcome === 'optimal' ? 'optimal' : 'feasible',
     objective: {
-      value: evaluateObjective(spec, buffers),
+      value,
       bound: single ? single.bound : null,
       gap: single ? single.gap : null,
     },
-    kpis: scheduleKpis(spec, buffers),
+    kpis: scheduleKpis(spec, ctx.facts.chargeSteps, buffers, terms),
     schedule,
     model: report,
     warnings,

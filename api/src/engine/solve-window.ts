@@ -1,6 +1,7 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning, SolveOutcome } from '@gridwright/shared/run-result';
 import { buildWindowModel, type BigMEntry } from './build-window-model';
+import type { Scales } from './choose-scales';
 import { coefficientRanges, rangesOutsideBand, type CoefficientRanges } from './coefficient-ranges';
 import type { Deadline } from './deadline';
 import { diagnoseInfeasibleSubsystem } from './diagnose-infeasible-subsystem';
@@ -8,6 +9,7 @@ import { extractWindowSchedule } from './extract-window-schedule';
 import { planWindow, type ForcedBinaries, type HorizonWindow, type SiteFacts, type WindowStartState } from './plan-window';
 import { repairExclusivity } from './repair-exclusivity';
 import type { ScheduleBuffers } from './schedule-buffers';
+import { priceWindow } from './price-window';
 import { solveInBlocks } from './solve-in-blocks';
 import type { SolverPort } from './solver-port';
 
@@ -33,7 +35,7 @@ export interface WindowSolve {
   /** The kinds of coefficient that left the healthy band (numerics.ts), checked before the solve. */
   rangesOutsideBand: Partial<CoefficientRanges>;
   bigM: BigMEntry[];
-  scale: { powerKw: number; money: number };
+  scale: Scales;
   diagnosis: ResultWarning[];
 }
 
@@ -116,11 +118,13 @@ export async function solveWindow(
     const unrepaired = left.grid.length + left.storage.reduce((n, s) => n + s.length, 0);
     if (unrepaired === 0 || round === EXCLUSIVITY_ROUNDS - 1) {
       const proved = res.status === 'optimal' && !res.killedAtDeadline;
+      const priced = await priceWindow(opts.solver, plan, built, res.colValue, buffers, { deadline: opts.deadline, signal: opts.signal });
       return {
         ...base,
+        solveSeconds: solveSeconds + priced.workerSeconds,
         outcome: proved ? 'optimal' : 'feasible',
         gap: res.mipGap,
-        bound: res.dualBound === null ? null : res.dualBound * plan.scales.money,
+        bound: res.dualBound === null ? null : (res.dualBound + built.objectiveOffset) * plan.scales.money,
         diagnosis: [],
       };
     }

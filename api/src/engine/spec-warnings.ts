@@ -3,6 +3,7 @@ import type { ResultWarning } from '@gridwright/shared/run-result';
 import { nonZeroSpan } from './coefficient-ranges';
 import { MAGNITUDE_SPREAD_LIMIT } from './numerics';
 import { precheckInfeasibility } from './precheck-infeasibility';
+import { demandChargeSteps } from './demand-charge-steps';
 import { ratingSums, reachableKw } from './site-ratings';
 
 /** The smallest and largest non-zero figure when they lie more than MAGNITUDE_SPREAD_LIMIT apart. */
@@ -39,7 +40,21 @@ export function specWarnings(spec: ResolvedSiteSpec): ResultWarning[] {
     }
   });
 
-  const prices = [...spec.grid.importPrice, ...spec.grid.exportPrice, ...spec.units.flatMap((u) => [u.valuePerKwh, u.costPerKwh, u.startupCost])];
+  demandChargeSteps(spec).forEach((mask, c) => {
+    if (mask.includes(1)) return;
+    const charge = spec.grid.demandCharges[c];
+    warnings.push({
+      code: 'demand-charge-no-steps',
+      message: `Demand charge "${charge.id}" applies at no step of the horizon (${charge.window.from}–${charge.window.to} local time on weekdays ${charge.window.daysOfWeek.join(', ')}): it costs nothing in this run.`,
+      pointer: `/grid/demandCharges/${c}/window`,
+    });
+  });
+
+  const prices = [
+    ...spec.grid.importPrice,
+    ...spec.grid.exportPrice,
+    ...spec.units.flatMap((u) => [...u.curve.map((s) => s.perKwh), u.noLoadCostPerHour, u.startupCost.hot, u.startupCost.cold]),
+  ];
   const priceSpread = spread(prices);
   if (priceSpread) {
     warnings.push({

@@ -1,27 +1,41 @@
-/** The offset of an ISO 8601 date-time in minutes east of UTC ("Z" ⇒ 0). */
-function offsetMinutes(iso: string): number {
-  const m = /([+-])(\d{2}):?(\d{2})$/.exec(iso);
-  if (!m) return 0;
-  const minutes = Number(m[2]) * 60 + Number(m[3]);
-  return m[1] === '-' ? -minutes : minutes;
+import { DateTime, FixedOffsetZone, type Zone } from 'luxon';
+
+/** The zone local times are read in: the horizon's IANA zone, or the start's own fixed UTC offset. */
+export function horizonZone(start: string, timeZone: string | null): Zone | string {
+  if (timeZone) return timeZone;
+  return FixedOffsetZone.instance(DateTime.fromISO(start, { setZone: true }).offset);
 }
 
-function formatOffset(minutes: number): string {
-  if (minutes === 0) return 'Z';
-  const sign = minutes < 0 ? '-' : '+';
-  const abs = Math.abs(minutes);
-  return `${sign}${String(Math.floor(abs / 60)).padStart(2, '0')}:${String(abs % 60).padStart(2, '0')}`;
+function stepInstant(start: string, stepMinutes: number, t: number): number {
+  return Date.parse(start) + t * stepMinutes * 60_000;
 }
 
-/** The start of every step, written with the horizon start's own UTC offset (a fixed offset: no DST shifts). */
-export function stepTimestamps(start: string, stepMinutes: number, steps: number): string[] {
-  const offset = offsetMinutes(start);
-  const suffix = formatOffset(offset);
-  const t0 = Date.parse(start);
+/**
+ * The start of every step in local time with its UTC offset: the horizon's zone (offsets follow
+ * daylight saving), or without one the start's own fixed offset.
+ */
+export function stepTimestamps(start: string, stepMinutes: number, steps: number, timeZone: string | null = null): string[] {
+  const zone = horizonZone(start, timeZone);
   const out = new Array<string>(steps);
   for (let t = 0; t < steps; t++) {
-    const local = new Date(t0 + (t * stepMinutes + offset) * 60_000).toISOString();
-    out[t] = local.slice(0, 19) + suffix;
+    out[t] = DateTime.fromMillis(stepInstant(start, stepMinutes, t), { zone }).toISO({ suppressMilliseconds: true })!;
+  }
+  return out;
+}
+
+export interface LocalStepTime {
+  /** ISO weekday of the step's local date: 1 = Monday … 7 = Sunday. */
+  weekday: number;
+  /** Minutes since local midnight at the step's start. */
+  minuteOfDay: number;
+}
+
+export function localStepTimes(start: string, stepMinutes: number, steps: number, timeZone: string | null): LocalStepTime[] {
+  const zone = horizonZone(start, timeZone);
+  const out = new Array<LocalStepTime>(steps);
+  for (let t = 0; t < steps; t++) {
+    const local = DateTime.fromMillis(stepInstant(start, stepMinutes, t), { zone });
+    out[t] = { weekday: local.weekday, minuteOfDay: local.hour * 60 + local.minute };
   }
   return out;
 }

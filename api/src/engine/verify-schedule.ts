@@ -12,49 +12,21 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { Schedule } from '@gridwright/shared/run-result';
 import { Tolerance } from './verify-tolerance';
 import { findRunViolations } from './verify-unit-runs';
+import { fmt, seriesOk, ViolationList } from './verify-violations';
+import { verifySiteExtensions } from './verify-site-extensions';
+import { verifyRamps } from './verify-ramps';
 
-export interface ScheduleViolation {
-  code: string;
-  message: string;
-  step?: number;
-  pointer?: string;
-}
+export type { ScheduleViolation } from './verify-violations';
+
+export { MAX_REPORTED_VIOLATIONS } from './verify-violations';
+
+import type { ScheduleViolation } from './verify-violations';
 
 export interface VerificationResult {
   ok: boolean;
   violations: ScheduleViolation[];
   /** SPEC.md §2 objective recomputed from the schedule (maximised). */
   objective: number;
-}
-
-/** Beyond this many the list ends with one summary entry, so a broken year stays readable. */
-export const MAX_REPORTED_VIOLATIONS = 200;
-
-function fmt(x: number): string {
-  return Number.isInteger(x) ? String(x) : x.toPrecision(8).replace(/\.?0+$/, '');
-}
-
-class ViolationList {
-  readonly items: ScheduleViolation[] = [];
-  private dropped = 0;
-
-  add(code: string, message: string, step?: number, pointer?: string): void {
-    if (this.items.length < MAX_REPORTED_VIOLATIONS) {
-      const v: ScheduleViolation = { code, message };
-      if (step !== undefined) v.step = step;
-      if (pointer !== undefined) v.pointer = pointer;
-      this.items.push(v);
-    } else {
-      this.dropped++;
-    }
-  }
-
-  finish(): ScheduleViolation[] {
-    if (this.dropped > 0) {
-      this.items.push({ code: 'more-violations', message: `${this.dropped} further violations not listed` });
-    }
-    return this.items;
-  }
 }
 
 /** The largest power or energy figure in the spec: the scale of the absolute tolerance. */
@@ -68,28 +40,18 @@ function siteScale(spec: ResolvedSiteSpec): number {
   return m;
 }
 
-function seriesOk(
-  list: ViolationList,
-  series: readonly number[] | undefined,
-  steps: number,
-  pointer: string,
-  label: string,
-): series is readonly number[] {
-  if (!Array.isArray(series)) {
-    list.add('missing-series', `schedule has no ${label} series`, undefined, pointer);
-    return false;
+/**
+ * The money per hour of a unit at `kw` by its curve, walking slices upwards from 0 kW: each
+ * slice's price on the part of `kw` that lies between its lower end and its `upToKw`.
+ */
+function sliceFilledPrice(curve: readonly { upToKw: number; perKwh: number }[], kw: number): number {
+  let money = 0;
+  let lower = 0;
+  for (const slice of curve) {
+    if (kw > lower) money += slice.perKwh * (Math.min(kw, slice.upToKw) - lower);
+    lower = slice.upToKw;
   }
-  if (series.length !== steps) {
-    list.add('length', `${label} has ${series.length} values, the horizon has ${steps} steps`, undefined, pointer);
-    return false;
-  }
-  for (let t = 0; t < steps; t++) {
-    if (typeof series[t] !== 'number' || !Number.isFinite(series[t])) {
-      list.add('non-finite', `${label} at step ${t} is not a finite number`, t, pointer);
-      return false;
-    }
-  }
-  return true;
+  return money;
 }
 
 export function verifySchedule(spec: ResolvedSiteSpec, schedule: Schedule): VerificationResult {
@@ -203,18 +165,18 @@ export function verifySchedule(spec: ResolvedSiteSpec, schedule: Schedule): Veri
     const on = s.on;
     const p = s.powerKw;
     const sign = unit.kind === 'generator' ? 1 : -1;
-    const pricePerKwh = unit.kind === 'generator' ? -unit.costPerKwh : unit.valuePerKwh;
     const minStable = unit.minStableKw;
     let binary = true;
     for (let t = 0; t < T; t++) {
       net[t] += sign * p[t];
       absSum[t] += Math.abs(p[t]);
-      objective += dh * pricePerKwh * p[t];
+      objective += dh * (unit.kind === 'generator' ? -1 : 1) * sliceFilledPrice(unit.curve, p[t]);
       if (on[t] !== 0 && on[t] !== 1) {
         list.add('unit-on-binary', `unit ${unit.id} on-state at step ${t} is ${on[t]}, not 0 or 1`, t, base);
         binary = false;
         continue;
       }
+      objective -= dh * unit.noLoadCostPerHour * on[t];
       if (p[t] < minStable * on[t] - tol.of(minStable) || !tol.le(p[t], unit.ratingKw * on[t])) {
         const pointer = on[t] === 1 && p[t] < minStable ? `${base}/minStableKw` : `${base}/ratingKw`;
         list.add('unit-power-bounds', `unit ${unit.id} at step ${t}: ${fmt(p[t])} kW while ${on[t] ? 'on' : 'off'}; allowed ${on[t] ? `[${fmt(minStable)}, ${fmt(unit.ratingKw)}]` : '0'}`, t, pointer);
@@ -224,13 +186,17 @@ export function verifySchedule(spec: ResolvedSiteSpec, schedule: Schedule): Veri
 
     const initialOn = unit.initial.on;
     const initialSteps = unit.initial.stepsInState;
-    let starts = 0;
+    // Steps off before each start, the time off before the horizon included (an initially
+    // off unit was on before its stepsInState; "forever" is resolved to a long enough count).
+    const { hot, cold, coldAfterSteps } = unit.startupCost;
     let prev = initialOn ? 1 : 0;
+    let offSteps = initialOn ? 0 : initialSteps;
     for (let t = 0; t < T; t++) {
-      if (on[t] === 1 && prev === 0) starts++;
+      if (on[t] === 1 && prev === 0) objective -= coldAfterSteps !== null && offSteps > coldAfterSteps ? cold : hot;
+      offSteps = on[t] === 1 ? 0 : offSteps + 1;
       prev = on[t];
     }
-    objective -= unit.startupCost * starts;
+    verifyRamps(list, tol, spec, i, on, p);
 
     for (const r of findRunViolations(on, initialOn, initialSteps, unit.minUpSteps, unit.minDownSteps)) {
       const what = r.kind === 'min-up' ? 'on' : 'off';
@@ -307,6 +273,8 @@ export function verifySchedule(spec: ResolvedSiteSpec, schedule: Schedule): Veri
       }
     }
   }
+
+  objective += verifySiteExtensions(list, spec, schedule);
 
   const violations = list.finish();
   return { ok: violations.length === 0, violations, objective };

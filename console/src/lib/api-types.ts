@@ -942,7 +942,7 @@ export interface paths {
 export type webhooks = Record<string, never>;
 export interface components {
     schemas: {
-        /** @description The site spec v1 (SPEC.md §1). Powers kW, energies kWh, money in the tenant's currency. Beyond this schema the API checks (400 with pointers): array lengths equal `horizon.steps`, `minStableKw ≤ ratingKw`, `minSocKwh ≤ initialSocKwh ≤ capacityKwh` (also `finalSocKwh`), ids unique across units and storage, `commitSteps ≤ windowSteps`, `segmentWindows` 0 or at least 2, a `seriesId` of your tenant with the horizon's step covering the horizon; the plan's caps on steps and units (422). Extension points: `supply` is inline values or an uploaded series; prices are a number or one per step; `solver.reductions` switches each formulation technique; `solver.mode` and `solver.window` choose the rolling horizon. Unknown fields are refused. */
+        /** @description The site spec (SPEC.md §1, extended by §5). Powers kW, energies kWh, money in the tenant's currency. Beyond this schema the API checks (400 with pointers): array lengths equal `horizon.steps`, `minStableKw ≤ ratingKw`, `minSocKwh ≤ initialSocKwh ≤ capacityKwh` (also `finalSocKwh`, and a store's `min ≤ initial ≤ capacity`), ids unique across units, storage and stores, a convex `costCurve` / concave `valueCurve` whose last `upToKw` is the rating (not beside the single figure it replaces), `cold ≥ hot` start costs, `initial.powerKw` within the output range of a unit that is on, `produces`/`consumes` naming an existing store, `commitSteps ≤ windowSteps`, `segmentWindows` 0 or at least 2, a `seriesId` of your tenant with the horizon's step covering the horizon; the plan's caps on steps and units (422). Extension points: `supply` is inline values or an uploaded series; prices are a number or one per step; `solver.reductions` switches each formulation technique; `solver.mode` and `solver.window` choose the rolling horizon. Unknown fields are refused. */
         SiteSpec: {
             name?: string;
             horizon: {
@@ -955,6 +955,8 @@ export interface components {
                 stepMinutes: 5 | 10 | 15 | 30 | 60;
                 /** @description Up to 366 days at 15 min; a plan may cap it lower. */
                 steps: number;
+                /** @description IANA time zone: local time for demand-charge windows, the schedule's timestamps and exports, with daylight saving. Absent: the start's fixed UTC offset. */
+                timeZone?: string;
             };
             /** @description Available supply per step: inline, or an uploaded series (`POST /v1/series`). */
             supply: {
@@ -978,11 +980,20 @@ export interface components {
                 importPrice?: components["schemas"]["PriceSeries"];
                 /** @default 0 */
                 exportPrice?: components["schemas"]["PriceSeries"];
+                /**
+                 * @description Each a price on the highest import in its local-time window (SPEC §5). A window that matches no step is a warning.
+                 * @default []
+                 */
+                demandCharges?: components["schemas"]["DemandCharge"][];
             };
             /** @default [] */
             units?: components["schemas"]["UnitSpec"][];
             /** @default [] */
             storage?: components["schemas"]["StorageSpec"][];
+            /** @default [] */
+            stores?: components["schemas"]["StoreSpec"][];
+            /** @description Spinning reserve the online fleet must hold (SPEC §5); absent: none. */
+            reserve?: components["schemas"]["Reserve"];
             /** @default {} */
             solver?: {
                 /**
@@ -1049,6 +1060,48 @@ export interface components {
              */
             independentBlocks?: boolean;
         };
+        Reserve: {
+            /** @description Spinning reserve to hold: one figure, or one per step. */
+            upKw: number | number[];
+            /** @description Money per kWh of reserve short; absent: the reserve is hard. */
+            shortfallPenaltyPerKwh?: number;
+        };
+        /** @description A store of a product other than electricity (fuel, water, hydrogen, heat) that units produce into or consume from. */
+        StoreSpec: {
+            id: components["schemas"]["AssetId"];
+            /** @description A label for people and exports, e.g. "hydrogen". */
+            product?: string;
+            /** @description The unit of the level and flows, e.g. "kg" or "m3". */
+            unit?: string;
+            capacity: number;
+            /** @default 0 */
+            min?: number;
+            initial: number;
+            /** @description Level the store must at least end with; absent: no target. */
+            final?: number;
+            /**
+             * @description Drawn every hour, in the unit per hour: one figure, or one per step.
+             * @default 0
+             */
+            demandPerHour?: number | number[];
+            /**
+             * @description Extension: product arriving from outside every hour, in the unit per hour (a fuel delivery, a river's inflow): one figure, or one per step. Default 0.
+             * @default 0
+             */
+            inflowPerHour?: number | number[];
+            /**
+             * @description Fraction of the level lost per hour.
+             * @default 0
+             */
+            lossPerHour?: number;
+            /** @description Money per unit of demand not met; absent: the demand is hard. */
+            shortfallPenaltyPerUnit?: number;
+            /**
+             * @description Excess product may be discarded at no value.
+             * @default false
+             */
+            spillAllowed?: boolean;
+        };
         StorageSpec: {
             id: components["schemas"]["AssetId"];
             capacityKwh: number;
@@ -1065,6 +1118,16 @@ export interface components {
             finalSocKwh?: number;
             /** @default 0 */
             cycleCostPerKwh?: number;
+            /**
+             * @description Never charged from the grid: import serves only the site load, flexible loads and other batteries.
+             * @default false
+             */
+            chargeFromSupplyOnly?: boolean;
+            /**
+             * @description Counts towards `reserve` by its unused discharge and the charging it can stop.
+             * @default true
+             */
+            providesReserve?: boolean;
         };
         UnitSpec: {
             id: components["schemas"]["AssetId"];
@@ -1076,33 +1139,107 @@ export interface components {
              * @default 0
              */
             minStableKw?: number;
-            /**
-             * @description Flexible loads; default 0.
-             * @default 0
-             */
+            /** @description Flexible loads; default 0. `valueCurve` replaces it. */
             valuePerKwh?: number;
+            /** @description Generators; default 0. `costCurve` replaces it. */
+            costPerKwh?: number;
             /**
-             * @description Generators; default 0.
+             * @description Paid every hour the unit is on, at any output (idling fuel, auxiliaries).
              * @default 0
              */
-            costPerKwh?: number;
-            /** @default 0 */
-            startupCost?: number;
+            noLoadCostPerHour?: number;
+            /** @description Generators: the incremental cost of each slice of output from 0 kW (the previous slice's upToKw) to its upToKw. Costs must not fall from one slice to the next (a convex curve) and the last upToKw is the rating. */
+            costCurve?: {
+                upToKw: number;
+                costPerKwh: number;
+            }[];
+            /** @description Flexible loads: the incremental value of each slice of consumption from 0 kW. Values must not rise from one slice to the next (a concave curve) and the last upToKw is the rating. */
+            valueCurve?: {
+                upToKw: number;
+                valuePerKwh: number;
+            }[];
+            /**
+             * @description A number, or hot and cold start costs (`cold ≥ hot`). A unit off since forever starts cold.
+             * @default 0
+             */
+            startupCost?: number | {
+                hot: number;
+                cold: number;
+                /** @description A start after at most this many steps off is hot; one more step off makes it cold. */
+                coldAfterSteps: number;
+            };
             /** @default 1 */
             minUpSteps?: number;
             /** @default 1 */
             minDownSteps?: number;
+            /** @description Output may rise by at most this × stepMinutes per step; a start may reach max(minStableKw, that) in its first step. */
+            rampUpKwPerMin?: number;
+            /** @description Output may fall by at most this × stepMinutes per step; a stop may leave from at most max(minStableKw, that). */
+            rampDownKwPerMin?: number;
             /**
-             * @description Default: off for longer than any minimum.
+             * @description Default: off forever.
              * @default {
              *       "on": false
              *     }
              */
             initial?: {
                 on: boolean;
-                /** @description Steps the unit has already been in that state before step 0; absent: longer than any minimum. */
+                /** @description Steps the unit has already been in that state before step 0, in the other state before that; absent: forever. */
                 stepsInState?: number;
+                /** @description Output at step −1 of a unit that is on; the ramp limits apply from it. Absent: no ramp limit at step 0. */
+                powerKw?: number;
             };
+            /** @description Counts towards `reserve`: a generator by its headroom, a flexible load by backing off. Default: true for generators. */
+            providesReserve?: boolean;
+            /** @description Puts `perKwh` units of a store's product into it per kWh of its power. */
+            produces?: components["schemas"]["StoreLink"];
+            /** @description Takes `perKwh` units of a store's product from it per kWh of its power. */
+            consumes?: components["schemas"]["StoreLink"];
+        };
+        StoreLink: {
+            /** @description The id of an entry of `stores`. */
+            store: components["schemas"]["AssetId"];
+            /** @description Units of the store's product per kWh of the unit's power. */
+            perKwh: number;
+        };
+        DemandCharge: {
+            id: components["schemas"]["AssetId"];
+            /** @description Money per kW of the highest import in the window, over this horizon. */
+            pricePerKw: number;
+            /**
+             * @description Which steps set the peak, by the local time of each step's start. Absent: every step.
+             * @default {}
+             */
+            window?: {
+                /**
+                 * @description ISO weekdays (1 = Monday … 7 = Sunday) of the step's own local date; default every day.
+                 * @default [
+                 *       1,
+                 *       2,
+                 *       3,
+                 *       4,
+                 *       5,
+                 *       6,
+                 *       7
+                 *     ]
+                 */
+                daysOfWeek?: number[];
+                /**
+                 * @description Local time, inclusive.
+                 * @default 00:00
+                 */
+                from?: string;
+                /**
+                 * @description Local time, exclusive. "00:00"–"24:00" is the whole day; `from` after `to` wraps past midnight; equal is empty.
+                 * @default 24:00
+                 */
+                to?: string;
+            };
+            /**
+             * @description The peak already set this billing period: the charge pays only for import above it.
+             * @default 0
+             */
+            existingPeakKw?: number;
         };
         AssetId: string;
         /** @description One price for every step, or one per step. */
@@ -1226,10 +1363,14 @@ export interface components {
             };
             /** @description Sequences of rolling windows solved side by side (1: one sequence, or monolithic). */
             segments: number;
-            /** @description The internal units chosen by `scaling` (1 kW and 1 money unit when off). */
+            /** @description The internal units chosen by `scaling` (1 when off): power, money, each store in its own unit, and demand-charge peaks (a power of ten below the power unit, so a kW of peak and a kWh of energy have prices of similar size). */
             scale: {
                 powerKw: number;
                 money: number;
+                stores: {
+                    [key: string]: number;
+                };
+                demandPeakKw: number;
             };
             buildSeconds: number;
             /** @description Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time. */
@@ -1244,9 +1385,9 @@ export interface components {
             number,
             number
         ] | null;
-        /** @description Per-step values; `timestamps` are the starts of the steps with the spec's offset. Advisory — an operator approves setpoints. */
+        /** @description Per-step values; `timestamps` are the starts of the steps in local time (the spec's `horizon.timeZone`, or the start's offset). Advisory — an operator approves setpoints. */
         Schedule: {
-            /** @description Start of each step, ISO 8601 with the horizon's offset. */
+            /** @description Start of each step, ISO 8601 with the local offset (horizon.timeZone's, or the start's own). */
             timestamps: string[];
             supplyUsedKw: number[];
             curtailedKw: number[];
@@ -1260,6 +1401,8 @@ export interface components {
                     /** @description 0 or 1 per step. */
                     on: number[];
                     powerKw: number[];
+                    /** @description Spinning reserve held per step (headroom); present when the spec requires reserve and this asset provides it. */
+                    reserveKw?: number[];
                 };
             };
             storage: {
@@ -1268,6 +1411,32 @@ export interface components {
                     dischargeKw: number[];
                     /** @description State of charge at the end of each step. */
                     socKwh: number[];
+                    /** @description Spinning reserve held per step (headroom); present when the spec requires reserve and this asset provides it. */
+                    reserveKw?: number[];
+                };
+            };
+            stores: {
+                [key: string]: {
+                    /** @description Level at the end of each step, in the store's unit. */
+                    level: number[];
+                    /** @description Demand not met per step, in the store's unit per hour. */
+                    shortfall: number[];
+                    /** @description Product discarded per step, in the store's unit per hour. */
+                    spill: number[];
+                };
+            };
+            /** @description Spinning reserve per step; null when the spec has no reserve requirement. */
+            reserve: {
+                requiredKw: number[];
+                /** @description What the units and batteries that provide reserve hold: their headroom, summed. */
+                providedKw: number[];
+                shortfallKw: number[];
+            } | null;
+            /** @description Marginal values from the LP with every on/off and exclusivity decision fixed at the schedule’s (the duals of the energy balance and of each store’s level): what one more kWh delivered to the site, or one more unit put into a store, is worth at that step, in money per kWh (per store unit). null where no price is known. */
+            marginalValues: {
+                energyPerKwh: (number | null)[];
+                stores: {
+                    [key: string]: (number | null)[];
                 };
             };
         };
@@ -1277,10 +1446,14 @@ export interface components {
             importKwh: number;
             exportKwh: number;
             unservedKwh: number;
+            /** @description Spinning reserve short of the requirement, in kWh (0 without a requirement). */
+            reserveShortfallKwh: number;
             units: {
                 [key: string]: {
                     energyKwh: number;
                     starts: number;
+                    /** @description Starts after more than `coldAfterSteps` steps off (0 for a unit with one start cost: every start counts as hot). */
+                    coldStarts: number;
                     onSteps: number;
                 };
             };
@@ -1291,6 +1464,39 @@ export interface components {
                     finalSocKwh: number;
                 };
             };
+            stores: {
+                [key: string]: {
+                    produced: number;
+                    consumed: number;
+                    /** @description What arrived from outside (inflowPerHour). */
+                    inflow: number;
+                    /** @description The demand met: the demand less the shortfall. */
+                    delivered: number;
+                    shortfall: number;
+                    spilled: number;
+                    finalLevel: number;
+                };
+            };
+            demandCharges: {
+                [key: string]: {
+                    /** @description The highest import in the charge's window, at least its existingPeakKw. */
+                    peakKw: number;
+                    /** @description pricePerKw × (peakKw − existingPeakKw). */
+                    cost: number;
+                };
+            };
+            objectiveTerms: components["schemas"]["ObjectiveTerms"];
+        };
+        /** @description Where the money goes: each a signed contribution to `objective.value` (value positive, cost negative); together they sum to it. */
+        ObjectiveTerms: {
+            /** @description Export revenue − import cost + flexible loads' value − generators' energy cost (their curves). */
+            energy: number;
+            noLoad: number;
+            starts: number;
+            demandCharges: number;
+            /** @description Unserved load, reserve shortfall and store shortfall, each at its penalty. */
+            penalties: number;
+            cycleCost: number;
         };
         /**
          * @description `no-solution`: the time limit was hit before any feasible schedule was found.

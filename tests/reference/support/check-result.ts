@@ -21,6 +21,20 @@ export function expectVerifiedOptimum(spec: ResolvedSiteSpec, result: SiteSoluti
   return value;
 }
 
+/** Each step of a series within the reference README's 1e-6 relative tolerance of a derived figure (null never is). */
+export function expectSeries(label: string, xs: readonly (number | null)[], want: readonly number[]) {
+  expect(xs.length, label).toBe(want.length);
+  xs.forEach((x, t) => expect(x !== null && closeRel(x, want[t]), `${label} step ${t}: ${x} vs ${want[t]}`).toBe(true));
+}
+
+/** The result's objective terms (kpis.objectiveTerms) named in `want`, each within 1e-6 relative. */
+export function expectObjectiveTerms(result: SiteSolution, want: Partial<NonNullable<SiteSolution['kpis']>['objectiveTerms']>) {
+  for (const [term, value] of Object.entries(want)) {
+    const got = result.kpis!.objectiveTerms[term as keyof typeof want];
+    expect(closeRel(got, value), `objective term ${term}: ${got} vs ${value}`).toBe(true);
+  }
+}
+
 /**
  * Steps where a battery charges and discharges, or the grid imports and exports, at once.
  * Anything above 1e-9 of the larger limit counts: the engine promises cleaned values.

@@ -11,6 +11,9 @@ const schedule: Schedule = {
   grid: { importKw: [8, 0, 0, 0], exportKw: [0, 0, 4, 0] },
   units: { 'ely-1': { on: [0, 1, 1, 0], powerKw: [0, 10, 16, 0] }, 'gen-1': { on: [1, 1, 1, 1], powerKw: [8, 8, 8, 8] } },
   storage: { 'bess-1': { chargeKw: [0, 0, 0, 0], dischargeKw: [0, 0, 0, 5], socKwh: [50, 50, 50, 44.7] } },
+  stores: {},
+  reserve: null,
+  marginalValues: { energyPerKwh: [null, null, null, null], stores: {} },
 };
 
 describe('supplyPoints', () => {
