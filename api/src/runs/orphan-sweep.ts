@@ -1,0 +1,88 @@
+import type { EntityManager } from 'typeorm';
+import type { AppContext } from '../context';
+import { presentWorkerHashesSql } from '../services/worker-presence';
+import { announceEnding } from './events';
+import { dropRunJob, placeInQueue, sendRunJob } from './queue';
+import { deadLetterRun, requeueRun } from './transitions';
+
+interface OrphanedRow {
+  id: string;
+  attempts: number;
+  job_id: string | null;
+  time_limit_seconds: number;
+}
+
+export interface SweepScope {
+  /** The sweeping worker: runs it holds count as orphaned unless one of its jobs in hand is theirs. */
+  workerId: string;
+  ownJobIds: string[];
+}
+
+/**
+ * A running run is orphaned when no live attempt supervises it:
+ *   - its worker is gone: the worker's presence lock is not held (`services/worker-presence.ts`),
+ *     which PostgreSQL releases the moment the process dies, whatever the time;
+ *   - the sweeping worker itself holds it, but none of its jobs in hand is the run's job: the
+ *     attempt ended without an ending (the database failed under it, a claim's answer was lost);
+ *   - its heartbeat is older than RUN_HEARTBEAT_STALE_SECONDS: the backstop for a worker that is
+ *     frozen, or whose host vanished while its connection still looks open.
+ * Rows another sweeper is handling are skipped, not waited for.
+ */
+async function lockOrphanedRuns(manager: EntityManager, scope: SweepScope, staleSeconds: number): Promise<OrphanedRow[]> {
+  return manager.query(
+    `WITH present AS MATERIALIZED (${presentWorkerHashesSql()})
+     SELECT id, attempts, job_id, time_limit_seconds FROM runs
+      WHERE status = 'running'
+        AND (hashtext(worker_id)::oid NOT IN (SELECT objid FROM present)
+             OR (worker_id = $1 AND NOT (job_id = ANY($2::uuid[])))
+             OR heartbeat_at < now() - make_interval(secs => $3))
+      ORDER BY heartbeat_at
+      FOR UPDATE SKIP LOCKED`,
+    [scope.workerId, scope.ownJobIds, staleSeconds],
+  );
+}
+
+/**
+ * Queues every orphaned run again, with a new job at the front of the fair queue (its old job is
+ * cancelled), or, once it has been attempted more than RUN_RETRY_LIMIT times over, ends it failed
+ * with its webhook event. One transaction: a run is never both queued again and left running, and
+ * two sweepers never queue one run twice. Answers how many runs were queued again.
+ */
+export async function sweepOrphanedRuns(ctx: AppContext, scope: SweepScope): Promise<number> {
+  return ctx.db.transaction(async (manager) => {
+    let requeued = 0;
+    for (const orphan of await lockOrphanedRuns(manager, scope, ctx.config.runHeartbeatStaleSeconds)) {
+      if (orphan.attempts > ctx.config.runRetryLimit && orphan.job_id) {
+        await announceEnding(ctx, manager, orphan.id, await deadLetterRun(manager, orphan.id, orphan.job_id));
+        await dropRunJob(ctx, manager, orphan.job_id);
+        continue;
+      }
+      const place = await placeInQueue(manager, null);
+      if (!(await requeueRun(manager, { runId: orphan.id, attempt: orphan.attempts }, place))) continue;
+      await sendRunJob(ctx, manager, { id: orphan.id, timeLimitSeconds: orphan.time_limit_seconds }, place);
+      if (orphan.job_id) await dropRunJob(ctx, manager, orphan.job_id);
+      requeued++;
+    }
+    if (requeued) ctx.log.info({ requeued }, 'orphaned runs queued again');
+    return requeued;
+  });
+}
+
+/** Sweeps now and every RUN_ORPHAN_SWEEP_SECONDS until stopped; any worker's sweep serves all workers. */
+export function startOrphanSweep(ctx: AppContext, scope: () => SweepScope): { stop(): Promise<void> } {
+  let running: Promise<unknown> | null = null;
+  const sweep = () => {
+    if (running) return;
+    running = sweepOrphanedRuns(ctx, scope())
+      .catch((err) => ctx.log.warn({ err }, 'orphan sweep failed'))
+      .finally(() => (running = null));
+  };
+  sweep();
+  const timer = setInterval(sweep, ctx.config.runOrphanSweepSeconds * 1000);
+  return {
+    async stop() {
+      clearInterval(timer);
+      await running;
+    },
+  };
+}
