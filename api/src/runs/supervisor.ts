@@ -3,7 +3,7 @@ import type { AppContext } from '../context';
 import { Deadline, workerHardStop } from '../engine/deadline';
 import { solveSite } from '../engine/solve-site';
 import type { SolverPort } from '../engine/solver-port';
-import { isDatabaseUnavailable } from '../lib/error-handler';
+import { retryWhileDatabaseUnavailable } from '../lib/database-retry';
 import { recordRunUsage } from '../services/quotas';
 import { resolveSiteSpecForTenant } from '../services/resolve-site-spec';
 import { announceEnding } from './events';
@@ -134,27 +134,17 @@ function failureOf(err: unknown, stopReason: StopReason | null, claimed: Claimed
  * the heartbeat would have gone stale, by which time the run has been queued again anyway.
  */
 async function conclude(ctx: AppContext, claimed: ClaimedRun, report: AttemptReport, ending: Ending) {
-  const ended = await retryWhileDatabaseUnavailable(ctx, () =>
-    ctx.db.transaction(async (manager) => {
-      const outcome = await ending(manager, report);
-      await announceEnding(ctx, manager, claimed.runId, outcome);
-      return outcome;
-    }),
+  const giveUpAt = Date.now() + ctx.config.runHeartbeatStaleSeconds * 1000;
+  const ended = await retryWhileDatabaseUnavailable(
+    () =>
+      ctx.db.transaction(async (manager) => {
+        const outcome = await ending(manager, report);
+        await announceEnding(ctx, manager, claimed.runId, outcome);
+        return outcome;
+      }),
+    { log: ctx.log, what: 'ending a run', giveUp: () => Date.now() > giveUpAt },
   );
   if (!ended) return;
   const usage = { tenantId: claimed.tenantId, runId: claimed.runId, solverSeconds: report.solverSeconds, steps: claimed.steps, units: claimed.units, endedAt: ended.finishedAt };
   await recordRunUsage(ctx, usage).catch((err) => ctx.log.error({ err, runId: claimed.runId }, 'recording run usage failed'));
-}
-
-async function retryWhileDatabaseUnavailable<T>(ctx: AppContext, write: () => Promise<T>): Promise<T> {
-  const giveUpAt = Date.now() + ctx.config.runHeartbeatStaleSeconds * 1000;
-  for (let waitMs = 250; ; waitMs = Math.min(5_000, waitMs * 2)) {
-    try {
-      return await write();
-    } catch (err) {
-      if (!isDatabaseUnavailable(err) || Date.now() + waitMs > giveUpAt) throw err;
-      ctx.log.warn({ err }, 'database unreachable while ending a run; trying again');
-      await new Promise((resolve) => setTimeout(resolve, waitMs));
-    }
-  }
 }

@@ -1,4 +1,5 @@
 import type PgBoss from 'pg-boss';
+import { retryWhileDatabaseUnavailable } from '../lib/database-retry';
 import type { Logger } from '../lib/logger';
 
 export interface JobPumpOptions<T> {
@@ -78,15 +79,20 @@ export class JobPump<T> {
 
   private dispatch(job: PgBoss.JobWithMetadata<T>): void {
     const { boss, queue, log } = this.opts;
+    // A job left active by a settlement lost to an outage would wait for its expiry; keep trying.
+    const settle = (write: () => Promise<unknown>) =>
+      retryWhileDatabaseUnavailable(write, { log, what: 'settling a job', giveUp: () => this.stopped }).catch((err) =>
+        log.warn({ err, queue, jobId: job.id }, 'could not settle the job; it is retried once it expires'),
+      );
     const settled = (async () => {
       try {
         await this.opts.handle(job);
       } catch (err) {
         log.warn({ err, queue, jobId: job.id }, 'job failed; the queue retries it');
-        await boss.fail(queue, job.id, { message: (err as Error).message }).catch((e) => log.warn({ err: e, queue, jobId: job.id }, 'could not fail the job'));
+        await settle(() => boss.fail(queue, job.id, { message: (err as Error).message }));
         return;
       }
-      await boss.complete(queue, job.id).catch((err) => log.warn({ err, queue, jobId: job.id }, 'could not complete the job'));
+      await settle(() => boss.complete(queue, job.id));
     })().finally(() => {
       this.inFlight.delete(job.id);
       this.wake();
