@@ -61,8 +61,17 @@ describe('a worker killed mid-solve (short)', () => {
       const final = await waitAllTerminal(pool, ids, 50_000);
       expect([...final.values()].map((r) => r.status)).toEqual(['succeeded', 'succeeded', 'succeeded']);
       expect(final.get(held)!.attempts).toBeGreaterThan(1);
-      const { rows } = await pool.query(`SELECT count(*)::int AS n FROM run_usage WHERE run_id = ANY($1::uuid[])`, [ids]);
-      expect(rows[0].n).toBe(3);
+      // Usage is written just after a run's ending; once all three are there, no fourth may follow.
+      const usage = await waitFor(
+        'one usage row per run',
+        async () => {
+          const { rows } = await pool.query(`SELECT count(*)::int AS n, count(DISTINCT run_id)::int AS runs FROM run_usage WHERE run_id = ANY($1::uuid[])`, [ids]);
+          return rows[0].runs === 3 ? rows[0] : undefined;
+        },
+        30_000,
+        50,
+      );
+      expect(usage.n).toBe(3);
     } finally {
       await pool.end();
     }

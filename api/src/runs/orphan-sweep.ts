@@ -5,40 +5,48 @@ import { announceEnding } from './events';
 import { dropRunJob, placeInQueue, sendRunJob } from './queue';
 import { deadLetterRun, requeueRun } from './transitions';
 
-interface OrphanedRow {
+interface CandidateRow {
   id: string;
   attempts: number;
   job_id: string | null;
   time_limit_seconds: number;
+  /** Its worker is gone or its heartbeat is stale: orphaned whoever sweeps. */
+  abandoned: boolean;
 }
 
 export interface SweepScope {
-  /** The sweeping worker: runs it holds count as orphaned unless one of its jobs in hand is theirs. */
+  /** The sweeping worker: a run it holds is orphaned unless one of its jobs in hand is the run's job. */
   workerId: string;
-  ownJobIds: string[];
+  /** The sweeping worker's jobs in hand, read after the candidates are locked (see below). */
+  ownJobIds: () => string[];
 }
 
 /**
- * A running run is orphaned when no live attempt supervises it:
+ * Locks the running runs that may be orphaned; rows another sweeper or a committing attempt holds
+ * are skipped, not waited for. A running run is orphaned when no live attempt supervises it:
  *   - its worker is gone: the worker's presence lock is not held (`services/worker-presence.ts`),
  *     which PostgreSQL releases the moment the process dies, whatever the time;
- *   - the sweeping worker itself holds it, but none of its jobs in hand is the run's job: the
- *     attempt ended without an ending (the database failed under it, a claim's answer was lost);
  *   - its heartbeat is older than RUN_HEARTBEAT_STALE_SECONDS: the backstop for a worker that is
- *     frozen, or whose host vanished while its connection still looks open.
- * Rows another sweeper is handling are skipped, not waited for.
+ *     frozen, or whose host vanished while its connection still looks open;
+ *   - the sweeping worker holds it, yet none of its jobs in hand is the run's job: the attempt
+ *     ended without an ending (the database failed under it, a claim's answer was lost).
+ * The last needs the jobs in hand read after the rows are locked: a job is in hand from before its
+ * claim until after its ending commits, and a locked row can no longer be claimed or ended, so a run
+ * that is running under this worker with a job not in hand then is truly left behind. Read before
+ * the query, the list would miss a job whose claim committed in between, and its run would be
+ * taken from a live attempt.
  */
-async function lockOrphanedRuns(manager: EntityManager, scope: SweepScope, staleSeconds: number): Promise<OrphanedRow[]> {
+async function lockCandidates(manager: EntityManager, workerId: string, staleSeconds: number): Promise<CandidateRow[]> {
   return manager.query(
     `WITH present AS MATERIALIZED (${presentWorkerHashesSql()})
-     SELECT id, attempts, job_id, time_limit_seconds FROM runs
+     SELECT id, attempts, job_id, time_limit_seconds,
+            (hashtext(worker_id)::oid NOT IN (SELECT objid FROM present) OR heartbeat_at < now() - make_interval(secs => $2)) AS abandoned
+       FROM runs
       WHERE status = 'running'
-        AND (hashtext(worker_id)::oid NOT IN (SELECT objid FROM present)
-             OR (worker_id = $1 AND NOT (job_id = ANY($2::uuid[])))
-             OR heartbeat_at < now() - make_interval(secs => $3))
+        AND (worker_id = $1 OR hashtext(worker_id)::oid NOT IN (SELECT objid FROM present) OR heartbeat_at < now() - make_interval(secs => $2))
       ORDER BY heartbeat_at
       FOR UPDATE SKIP LOCKED`,
-    [scope.workerId, scope.ownJobIds, staleSeconds],
+    [workerId, staleSeconds],
   );
 }
 
@@ -50,8 +58,10 @@ async function lockOrphanedRuns(manager: EntityManager, scope: SweepScope, stale
  */
 export async function sweepOrphanedRuns(ctx: AppContext, scope: SweepScope): Promise<number> {
   return ctx.db.transaction(async (manager) => {
+    const candidates = await lockCandidates(manager, scope.workerId, ctx.config.runHeartbeatStaleSeconds);
+    const inHand = new Set(scope.ownJobIds());
     let requeued = 0;
-    for (const orphan of await lockOrphanedRuns(manager, scope, ctx.config.runHeartbeatStaleSeconds)) {
+    for (const orphan of candidates.filter((c) => c.abandoned || !(c.job_id && inHand.has(c.job_id)))) {
       if (orphan.attempts > ctx.config.runRetryLimit && orphan.job_id) {
         await announceEnding(ctx, manager, orphan.id, await deadLetterRun(manager, orphan.id, orphan.job_id));
         await dropRunJob(ctx, manager, orphan.job_id);
@@ -69,11 +79,11 @@ export async function sweepOrphanedRuns(ctx: AppContext, scope: SweepScope): Pro
 }
 
 /** Sweeps now and every RUN_ORPHAN_SWEEP_SECONDS until stopped; any worker's sweep serves all workers. */
-export function startOrphanSweep(ctx: AppContext, scope: () => SweepScope): { stop(): Promise<void> } {
+export function startOrphanSweep(ctx: AppContext, scope: SweepScope): { stop(): Promise<void> } {
   let running: Promise<unknown> | null = null;
   const sweep = () => {
     if (running) return;
-    running = sweepOrphanedRuns(ctx, scope())
+    running = sweepOrphanedRuns(ctx, scope)
       .catch((err) => ctx.log.warn({ err }, 'orphan sweep failed'))
       .finally(() => (running = null));
   };

@@ -48,7 +48,7 @@ export async function startRunWorker(
   }).start();
   const deadLetters = new JobPump<RunJobData>({ boss, queue: RUN_DEAD_QUEUE, slots: 1, pollMs, log: ctx.log, handle: (job) => endDeadLetteredRun(ctx, job.data) }).start();
   const unsubscribe = presence.onWake(RUN_QUEUE, () => runs.wake());
-  const sweep = startOrphanSweep(ctx, () => ({ workerId, ownJobIds: runs.inFlightJobIds() }));
+  const sweep = startOrphanSweep(ctx, { workerId, ownJobIds: () => runs.inFlightJobIds() });
   ctx.log.info({ workerId, concurrency, solverThreads: ctx.config.solverThreads }, 'run worker started');
   return {
     async stop(graceMs = Infinity) {

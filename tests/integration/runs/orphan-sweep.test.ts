@@ -49,7 +49,7 @@ describe('the orphan sweep', () => {
     expect(await claimRun(t.ctx.db, id, jobId, workerId)).not.toBeNull();
     return { id, jobId };
   }
-  const sweepAs = (workerId: string, ownJobIds: string[] = []) => sweepOrphanedRuns(t.ctx, { workerId, ownJobIds });
+  const sweepAs = (workerId: string, ownJobIds: string[] = []) => sweepOrphanedRuns(t.ctx, { workerId, ownJobIds: () => ownJobIds });
 
   it("queues a dead worker's run again under a new job at the front of the queue, and leaves a live worker's run alone", async () => {
     const alive = await held(LIVE, 'held by a live worker');

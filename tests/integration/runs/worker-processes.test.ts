@@ -48,14 +48,18 @@ describe('worker processes sharing one database', () => {
       });
     });
     for (const id of ids) expect((await waitForRun(t.app, key, id, undefined, 120_000)).status).toBe('succeeded');
+    // A job is completed last, after its run's ending and usage are written.
+    const jobs = await until('every run job settled', async () => {
+      const found: { id: string; state: string }[] = await t.ctx.db.query(`SELECT id, state FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = ANY($1::text[])`, [ids]);
+      return found.every((j) => j.state !== 'active' && j.state !== 'created' && j.state !== 'retry') ? found : undefined;
+    });
     const rows: { attempts: number; worker_id: string; job_id: string }[] = await t.ctx.db.query('SELECT attempts, worker_id, job_id FROM runs WHERE id = ANY($1::uuid[])', [ids]);
     expect(rows.map((r) => r.attempts)).toEqual(new Array(30).fill(1));
     expect(new Set(rows.map((r) => r.worker_id))).toEqual(new Set(workers.map((w) => w.workerId)));
     // One job per run, never replaced, and it is the job that started the run.
-    const jobs: { id: string; state: string }[] = await t.ctx.db.query(`SELECT id, state FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = ANY($1::text[])`, [ids]);
     expect(jobs).toHaveLength(30);
     expect(new Set(jobs.map((j) => j.id))).toEqual(new Set(rows.map((r) => r.job_id)));
-    expect(jobs.every((j) => j.state === 'completed')).toBe(true);
+    expect(jobs.map((j) => j.state)).toEqual(new Array(30).fill('completed'));
     const [{ n: usage }] = await t.ctx.db.query('SELECT count(*)::int AS n FROM run_usage WHERE run_id = ANY($1::uuid[])', [ids]);
     expect(usage).toBe(30);
   });
@@ -78,8 +82,12 @@ describe('worker processes sharing one database', () => {
     const [{ worker_id: finisher, job_id: secondJob }] = await t.ctx.db.query('SELECT worker_id, job_id FROM runs WHERE id = $1', [slow.body.id]);
     expect(finisher).not.toBe(holder);
     expect(secondJob).not.toBe(firstJob);
-    // The dead worker's job left the queue when the run was queued again under a new one.
-    const jobs: { id: string; state: string }[] = await t.ctx.db.query(`SELECT id, state FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = $1`, [slow.body.id]);
+    // The dead worker's job left the queue when the run was queued again under a new one, which
+    // is completed last, after the run's ending and usage.
+    const jobs = await until('the second job settled', async () => {
+      const found: { id: string; state: string }[] = await t.ctx.db.query(`SELECT id, state FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = $1`, [slow.body.id]);
+      return found.some((j) => j.id === secondJob && j.state !== 'active') ? found : undefined;
+    });
     expect(Object.fromEntries(jobs.map((j) => [j.id, j.state]))).toEqual({ [firstJob]: 'cancelled', [secondJob]: 'completed' });
     for (const o of others) expect((await waitForRun(t.app, key, o.body.id, undefined, 60_000)).status).toBe('succeeded');
     const [{ n: usage }] = await t.ctx.db.query('SELECT count(*)::int AS n FROM run_usage WHERE run_id = $1', [slow.body.id]);

@@ -63,7 +63,10 @@ export async function workerCrashScenario(opts: { ctx: AppContext; pool: pg.Pool
     const retried = [...final.values()].filter((r) => r.attempts > 1).length;
     const perRun = messagesPerRun(receiver.events, 'run.succeeded');
     const twice = [...perRun.values()].filter((m) => m.size > 1).length;
-    const usage = await pool.query(`SELECT count(*)::int AS n FROM run_usage WHERE run_id = ANY($1::uuid[])`, [ids]);
+    // Usage is written just after each run's ending.
+    const countUsage = async () => (await pool.query(`SELECT count(*)::int AS n FROM run_usage WHERE run_id = ANY($1::uuid[])`, [ids])).rows[0].n as number;
+    await waitFor('a usage row per run', async () => ((await countUsage()) >= ids.length ? true : undefined), 60_000).catch(() => false);
+    const usage = { rows: [{ n: await countUsage() }] };
     const failures = [...final.entries()].filter(([, r]) => r.status !== 'succeeded').slice(0, 3).map(([id, r]) => `${id}: ${r.status} ${JSON.stringify(r.error)}`);
     return [
       { scenario: 'Worker SIGKILL mid-solve', measure: `runs succeeded of ${ids.length} (${opts.kills} kills, ${killed.length} runs interrupted)`, value: `${succeeded}${failures.length ? ` — ${failures.join('; ')}` : ''}`, pass: succeeded === ids.length },
