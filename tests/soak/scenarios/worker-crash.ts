@@ -49,8 +49,20 @@ export async function workerCrashScenario(opts: { ctx: AppContext; pool: pg.Pool
       const holder = async () => (await pool.query(`SELECT status, worker_id FROM runs WHERE id = $1`, [victim.runId])).rows[0] as { status: string; worker_id: string | null };
       const elapsed = () => (performance.now() - killedAt) / 1000;
       // Back in the queue: no longer running under the dead worker (queued, or already taken again).
-      requeuedAfter.push(await waitFor('the orphaned run back in the queue', async () => ((await holder()).worker_id !== victim.worker.workerId ? elapsed() : undefined), 120_000, 20));
-      resumedAfter.push(await waitFor('the orphaned run taken by another worker', async () => ((await holder()).status !== 'queued' ? elapsed() : undefined), 120_000, 20));
+      const released = await waitFor(
+        'the orphaned run back in the queue',
+        async () => {
+          const h = await holder();
+          return h.worker_id !== victim.worker.workerId || h.status !== 'running' ? { seconds: elapsed(), ...h } : undefined;
+        },
+        120_000,
+        20,
+      );
+      // A run that ended under the dead worker had finished just before the kill: nothing to recover.
+      if (released.worker_id !== victim.worker.workerId) {
+        requeuedAfter.push(released.seconds);
+        resumedAfter.push(await waitFor('the orphaned run taken by another worker', async () => ((await holder()).status !== 'queued' ? elapsed() : undefined), 120_000, 20));
+      }
       await victim.worker.child.exited;
       killed.push(victim.runId);
       workers.splice(workers.indexOf(victim.worker), 1);
@@ -75,9 +87,9 @@ export async function workerCrashScenario(opts: { ctx: AppContext; pool: pg.Pool
       { scenario: 'Worker SIGKILL mid-solve', measure: 'usage rows (one per run)', value: String(usage.rows[0].n), pass: usage.rows[0].n === ids.length },
       {
         scenario: 'Worker SIGKILL mid-solve',
-        measure: 'time from the SIGKILL to the orphaned run back in the queue, per kill (target ≤ 15 s)',
+        measure: 'time from the SIGKILL to the orphaned run back in the queue, per kill that left a run behind (target ≤ 15 s)',
         value: requeuedAfter.map((s) => `${s.toFixed(2)} s`).join(', '),
-        pass: requeuedAfter.every((s) => s <= 15),
+        pass: requeuedAfter.length > 0 && requeuedAfter.every((s) => s <= 15),
       },
       {
         scenario: 'Worker SIGKILL mid-solve',
