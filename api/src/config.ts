@@ -66,9 +66,12 @@ export const environmentSchema = z
     RUN_EXPIRY_GRACE_SECONDS: decimalNumber({ min: 0 }).default(120),
     RUN_RETRY_LIMIT: wholeNumber(0).default(3),
     RUN_CANCEL_POLL_MS: wholeNumber(1).default(500),
-    // pg-boss refuses a maintenance interval under one second and polling more often than twice a second.
+    RUN_HEARTBEAT_STALE_SECONDS: decimalNumber({ above: 0 }).default(60),
+    RUN_ORPHAN_SWEEP_SECONDS: decimalNumber({ above: 0 }).default(2),
+    // pg-boss refuses a maintenance interval under one second; polling is only the fallback to wake-ups.
     QUEUE_MAINTENANCE_SECONDS: wholeNumber(1).default(30),
     QUEUE_POLLING_SECONDS: decimalNumber({ min: 0.5 }).default(1),
+    WEBHOOK_CONCURRENCY: wholeNumber(1).default(8),
     WEBHOOK_ALLOW_LOOPBACK: flag.default(false),
     WEBHOOK_TIMEOUT_MS: wholeNumber(1).default(10_000),
     WEBHOOK_MAX_RESPONSE_BYTES: wholeNumber(1).default(65_536),
@@ -138,13 +141,22 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     passwordResetMinutes: e.PASSWORD_RESET_MINUTES,
     bcryptRounds: e.BCRYPT_ROUNDS ?? (test ? 4 : 12),
     defaultPlan: e.DEFAULT_PLAN,
-    /** A run's queue job expires (and is retried, as after a crash) this long after its solver time limit. */
+    /** How far past its time limit a run may go: its worker stops it after half of this, pg-boss gives up its job after all of it. */
     runExpiryGraceSeconds: e.RUN_EXPIRY_GRACE_SECONDS,
-    /** How often pg-boss looks for expired jobs; bounds how soon a crashed worker's run is picked up again. */
+    /** How often pg-boss expires and archives jobs (a backstop; orphaned runs are found by the sweep). */
     queueMaintenanceSeconds: e.QUEUE_MAINTENANCE_SECONDS,
+    /** How often an idle queue consumer looks for due jobs it was not woken for (retries after a delay). */
     queuePollingSeconds: e.QUEUE_POLLING_SECONDS,
+    /** Times a run is queued again after its worker was lost, before it ends failed (`worker-lost`). */
     runRetryLimit: e.RUN_RETRY_LIMIT,
+    /** How often the attempt holding a run writes its heartbeat and reads the cancel flag. */
     runCancelPollMs: e.RUN_CANCEL_POLL_MS,
+    /** A run whose attempt wrote no heartbeat for this long is queued again, even if its worker still holds its presence lock. */
+    runHeartbeatStaleSeconds: e.RUN_HEARTBEAT_STALE_SECONDS,
+    /** How often each worker process looks for runs whose worker is gone. */
+    runOrphanSweepSeconds: e.RUN_ORPHAN_SWEEP_SECONDS,
+    /** Webhook deliveries attempted at once per worker process. */
+    webhookConcurrency: e.WEBHOOK_CONCURRENCY,
     webhookTimeoutMs: e.WEBHOOK_TIMEOUT_MS,
     webhookMaxResponseBytes: e.WEBHOOK_MAX_RESPONSE_BYTES,
     webhookRetryLimit: e.WEBHOOK_RETRY_LIMIT,

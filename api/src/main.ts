@@ -25,7 +25,8 @@ async function shutdown() {
   if (stopping) return;
   stopping = true;
   await new Promise<void>((resolve) => server.close(() => resolve()));
-  await workers.stop();
+  // Runs still solving after 5 s are queued again by other workers once this process is gone.
+  await workers.stop(5_000);
   await stopQueue(ctx);
   await ctx.mailer.close();
   await ctx.db.destroy();

@@ -1,5 +1,5 @@
 // `npm run worker`: a standalone solver worker. Start as many as the load needs, on any host that
-// reaches the database; pg-boss hands each run to exactly one of them.
+// reaches the database; each run is claimed by exactly one of them.
 import { createContext } from './bootstrap';
 import { stopQueue } from './services/job-queue';
 import { startWorkers } from './services/workers';
@@ -11,11 +11,15 @@ const workers = await startWorkers(ctx, { concurrency: ctx.config.workerConcurre
 ctx.log.info({ workerId: workers.workerId, concurrency: ctx.config.workerConcurrency }, 'worker ready');
 process.stdout.write(`worker ready ${workers.workerId}\n`);
 
+// Runs still solving when the grace is over are queued again by the other workers as soon as this
+// process's presence ends with it.
+const SHUTDOWN_GRACE_MS = 5_000;
+
 let stopping = false;
 async function shutdown() {
   if (stopping) return;
   stopping = true;
-  await workers.stop();
+  await workers.stop(SHUTDOWN_GRACE_MS);
   await stopQueue(ctx);
   await ctx.db.destroy();
   process.exit(0);

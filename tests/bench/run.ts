@@ -4,8 +4,9 @@
  * and only prints.
  *
  * Sections: each formulation reduction on vs off; monolithic vs rolling horizon and a rolling
- * 15-minute year; HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); and the RSS
- * of one solver worker over many consecutive small solves.
+ * 15-minute year; HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
+ * solver worker over many consecutive small solves; and how fast one worker process drains the
+ * run queue against the bound its solves set (on a throwaway PostgreSQL, `queue-throughput.ts`).
  */
 import { execFileSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
@@ -18,6 +19,7 @@ import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { solvePlain } from '../reference/support/plain-formulation';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/support/specs';
+import { queueThroughputSection } from './queue-throughput';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
 
 const quick = process.argv.includes('--quick');
@@ -237,6 +239,18 @@ async function memorySection(): Promise<void> {
   }
 }
 
+async function queueSection(): Promise<void> {
+  const section = 'Queue: small runs through one worker process';
+  try {
+    const queue = await queueThroughputSection({ runs: quick ? 40 : 200, warmUp: quick ? 10 : 20 });
+    for (const r of queue.rows) rows.push({ section, variant: r.variant, wallS: r.wallS, note: r.note });
+    summary.push(queue.summary);
+  } catch (e) {
+    rows.push({ section, variant: 'FAILED', note: (e as Error).message });
+    summary.push(`Queue: FAILED — ${(e as Error).message}`);
+  }
+}
+
 function machine(): string[] {
   const cpu = /model name\s*:\s*(.+)/.exec(readFileSync('/proc/cpuinfo', 'utf8'))?.[1] ?? os.cpus()[0]?.model ?? 'unknown';
   const nproc = execFileSync('nproc', { encoding: 'utf8' }).trim();
@@ -269,6 +283,7 @@ async function main(): Promise<void> {
   await rollingSection();
   await solverSection();
   await memorySection();
+  await queueSection();
   const seconds = (performance.now() - started) / 1000;
   const md = [
     '# Gridwright benchmark results',

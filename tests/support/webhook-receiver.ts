@@ -10,7 +10,8 @@ export interface ReceivedRequest {
   at: number;
 }
 
-export type ScriptedAnswer = { status: number; body?: string; headers?: Record<string, string>; delayMs?: number };
+/** `until`: the answer is held back until it settles (a receiver that is slow for as long as a test needs). */
+export type ScriptedAnswer = { status: number; body?: string; headers?: Record<string, string>; delayMs?: number; until?: Promise<unknown> };
 
 export interface WebhookReceiver {
   url: string;
@@ -34,7 +35,8 @@ export async function startWebhookReceiver(path = '/hooks/gridwright'): Promise<
         res.writeHead(answer.status, answer.headers ?? { 'content-type': 'text/plain' });
         res.end(answer.body ?? '');
       };
-      if (answer.delayMs) setTimeout(send, answer.delayMs);
+      if (answer.until) void answer.until.finally(send);
+      else if (answer.delayMs) setTimeout(send, answer.delayMs);
       else send();
     });
   });

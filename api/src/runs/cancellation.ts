@@ -2,11 +2,12 @@ import type { AppContext } from '../context';
 import { Run } from '../db/entities/run';
 import { HttpProblem } from '../lib/problem';
 import { announceEnding } from './events';
+import { dropRunJob } from './queue';
 import { getRun } from './reading';
 import { cancelQueuedRun, requestCancel } from './transitions';
 
 /**
- * A queued run is cancelled at once (its job finds it cancelled and never starts). A running run
+ * A queued run is cancelled at once and its job leaves the queue, so it takes no worker's turn. A running run
  * is flagged; the worker holding it sees the flag, terminates the solver and ends it cancelled.
  * Cancelling a cancelled run again is accepted; any other finished run is 409.
  */
@@ -14,7 +15,10 @@ export async function cancelRun(ctx: AppContext, tenantId: string, id: string): 
   const run = await getRun(ctx, tenantId, id);
   await ctx.db.transaction(async (manager) => {
     const cancelled = await cancelQueuedRun(manager, run.id);
-    if (cancelled) return announceEnding(ctx, manager, run.id, cancelled);
+    if (cancelled) {
+      if (cancelled.jobId) await dropRunJob(ctx, manager, cancelled.jobId);
+      return announceEnding(ctx, manager, run.id, cancelled);
+    }
     if (await requestCancel(manager, run.id)) return;
     const current = await manager.findOneByOrFail(Run, { id: run.id });
     if (current.status === 'cancelled') return;

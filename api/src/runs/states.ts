@@ -12,7 +12,7 @@ interface Move {
  */
 export const RUN_TRANSITIONS = {
   claim: { from: ['queued'], to: 'running' },
-  takeOver: { from: ['running'], to: 'running' },
+  requeue: { from: ['running'], to: 'queued' },
   recordProgress: { from: ['running'], to: 'running' },
   requestCancel: { from: ['running'], to: 'running' },
   finish: { from: ['running'], to: ['succeeded', 'failed'] },

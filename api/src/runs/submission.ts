@@ -7,7 +7,7 @@ import { specWarnings } from '../engine/spec-warnings';
 import { bindIdempotencyKey, bodyFingerprint, claimIdempotencyKey } from '../services/idempotency';
 import { assertRunAllowed } from '../services/quotas';
 import { resolveRequestSpec } from '../services/resolve-site-spec';
-import { enqueueRun } from './queue';
+import { placeInQueue, sendRunJob, type QueuePlace } from './queue';
 
 export interface RunActor {
   tenantId: string;
@@ -23,7 +23,8 @@ export async function checkSpec(ctx: AppContext, tenantId: string, body: unknown
 
 /**
  * Accepts a spec: one transaction inserts the run, its queue job and (with a key) the
- * Idempotency-Key record, so an accepted run is never lost and never created twice.
+ * Idempotency-Key record, so an accepted run is never lost and never created twice. The run's
+ * place in the queue is taken under the tenant's submission lock (`assertRunAllowed`).
  */
 export async function submitRun(
   ctx: AppContext,
@@ -43,9 +44,10 @@ export async function submitRun(
       if (!claim.fresh) return { run: await manager.findOneByOrFail(Run, { id: claim.runId }), replayed: true };
     }
     await assertRunAllowed(ctx, manager, actor.tenantId, { steps: checked.resolved.horizon.steps, units: checked.resolved.units.length });
-    const run = await insertRun(manager, actor, body, checked);
+    const place = await placeInQueue(manager, actor.tenantId);
+    const run = await insertRun(manager, actor, body, checked, place);
     if (idempotencyKey) await bindIdempotencyKey(manager, { tenantId: actor.tenantId, key: idempotencyKey, runId: run.id });
-    await enqueueRun(ctx, manager, run);
+    await sendRunJob(ctx, manager, run, place);
     return { run, replayed: false };
   });
 }
@@ -56,10 +58,11 @@ async function insertRun(
   actor: RunActor,
   submitted: unknown,
   { spec, resolved }: { spec: ValidSiteSpec; resolved: ResolvedSiteSpec },
+  place: QueuePlace,
 ): Promise<Run> {
   const [row]: { id: string }[] = await manager.query(
-    `INSERT INTO runs (tenant_id, name, spec, series_id, steps, units, time_limit_seconds, created_by_user_id, created_by_api_key_id)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9) RETURNING id`,
+    `INSERT INTO runs (tenant_id, name, spec, series_id, steps, units, time_limit_seconds, created_by_user_id, created_by_api_key_id, job_id, queue_round)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11) RETURNING id`,
     [
       actor.tenantId,
       resolved.name,
@@ -70,6 +73,8 @@ async function insertRun(
       resolved.solver.timeLimitSeconds,
       actor.userId ?? null,
       actor.apiKeyId ?? null,
+      place.jobId,
+      place.round,
     ],
   );
   return manager.findOneByOrFail(Run, { id: row.id });

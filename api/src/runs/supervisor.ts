@@ -3,6 +3,7 @@ import type { AppContext } from '../context';
 import { Deadline, workerHardStop } from '../engine/deadline';
 import { solveSite } from '../engine/solve-site';
 import type { SolverPort } from '../engine/solver-port';
+import { retryWhileDatabaseUnavailable } from '../lib/database-retry';
 import { recordRunUsage } from '../services/quotas';
 import { resolveSiteSpecForTenant } from '../services/resolve-site-spec';
 import { announceEnding } from './events';
@@ -12,7 +13,6 @@ import {
   failRun,
   finishRun,
   recordProgress,
-  takeOverRun,
   type AttemptReport,
   type ClaimedRun,
   type EndedRun,
@@ -39,14 +39,16 @@ type Ending = (manager: EntityManager, report: AttemptReport) => Promise<EndedRu
 const UNSOLVED: AttemptReport = { log: '', solverSeconds: 0, progress: null };
 
 /**
- * Supervises one attempt at a run for its queue job: claims the run (or takes it over from a
- * crashed attempt), watches it while the engine solves (progress out, cancel flag and supersession
- * in, a watchdog for the time limit) and hands the ending to a transition. Only crashes (the process
- * dies, the database fails) make the job fail and be retried; every outcome of the spec itself,
- * good or bad, completes the job.
+ * Supervises one attempt at a run for its queue job: claims the run, watches it while the engine
+ * solves (heartbeat and progress out, cancel flag and supersession in, a watchdog for the time
+ * limit) and hands the ending to a transition. Every outcome of the spec itself, good or bad,
+ * completes the job; a job that is not the run's current one finds nothing to claim. Should this
+ * throw after the claim (the database failed under it), the run is left running under a worker
+ * that no longer supervises it, and the orphan sweep queues it again.
  */
-export async function superviseRun(ctx: AppContext, runId: string, { workerId, solve = solveSite, solver }: Supervision): Promise<void> {
-  const claimed = (await claimRun(ctx.db, runId, workerId)) ?? (await takeOverRun(ctx.db, runId, workerId));
+export async function superviseRun(ctx: AppContext, job: { runId: string; jobId: string }, { workerId, solve = solveSite, solver }: Supervision): Promise<void> {
+  const { runId } = job;
+  const claimed = await claimRun(ctx.db, runId, job.jobId, workerId);
   if (!claimed) return;
   // The run's time limit runs from its claim; every later clock derives from this (engine/deadline.ts).
   const deadline = Deadline.after(claimed.timeLimitSeconds);
@@ -106,7 +108,7 @@ export async function superviseRun(ctx: AppContext, runId: string, { workerId, s
     ending = (m, r) => finishRun(m, claimed, result, r);
   } catch (err) {
     if (stopReason === 'superseded') {
-      ctx.log.info({ runId, attempt: claimed.attempt }, 'attempt superseded by a retry; leaving the run to it');
+      ctx.log.info({ runId, attempt: claimed.attempt }, 'attempt superseded (the run was queued again); leaving the run to its next attempt');
       return;
     }
     if (stopReason === 'cancelled') ending = (m, r) => cancelRunningRun(m, claimed, 'Cancelled while solving; the solver was terminated.', r);
@@ -127,14 +129,21 @@ function failureOf(err: unknown, stopReason: StopReason | null, claimed: Claimed
 
 /**
  * Applies the attempt's ending transition with its webhook event, then records the usage. A
- * superseded attempt's transition takes no effect, and then nothing else happens either.
+ * superseded attempt's transition takes no effect, and then nothing else happens either. A result
+ * is not thrown away for a database that is briefly unreachable: the ending is tried again until
+ * the heartbeat would have gone stale, by which time the run has been queued again anyway.
  */
 async function conclude(ctx: AppContext, claimed: ClaimedRun, report: AttemptReport, ending: Ending) {
-  const ended = await ctx.db.transaction(async (manager) => {
-    const outcome = await ending(manager, report);
-    await announceEnding(ctx, manager, claimed.runId, outcome);
-    return outcome;
-  });
+  const giveUpAt = Date.now() + ctx.config.runHeartbeatStaleSeconds * 1000;
+  const ended = await retryWhileDatabaseUnavailable(
+    () =>
+      ctx.db.transaction(async (manager) => {
+        const outcome = await ending(manager, report);
+        await announceEnding(ctx, manager, claimed.runId, outcome);
+        return outcome;
+      }),
+    { log: ctx.log, what: 'ending a run', giveUp: () => Date.now() > giveUpAt },
+  );
   if (!ended) return;
   const usage = { tenantId: claimed.tenantId, runId: claimed.runId, solverSeconds: report.solverSeconds, steps: claimed.steps, units: claimed.units, endedAt: ended.finishedAt };
   await recordRunUsage(ctx, usage).catch((err) => ctx.log.error({ err, runId: claimed.runId }, 'recording run usage failed'));

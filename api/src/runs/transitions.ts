@@ -1,5 +1,6 @@
 import type { SiteSolution } from '../engine/solve-site';
 import type { EntityManager } from 'typeorm';
+import type { QueuePlace } from './queue';
 import { fromStates, RUN_TRANSITIONS, type FinishedStatus } from './states';
 
 // The `runs` row, not the queue job, is the state machine the API reads. Every change of it is one
@@ -66,13 +67,19 @@ interface ClaimedRow {
   cancel_requested_at: Date | null;
 }
 
-async function startAttempt(db: RunDb, runId: string, workerId: string, transition: 'claim' | 'takeOver'): Promise<ClaimedRun | null> {
+/**
+ * queued → running under the next attempt number, for the run's current job only. Null when the
+ * run is not queued (cancelled before it started, finished, or held by a worker) or when `jobId` is
+ * not its current job (a job left over from before the run was queued again): such a job has
+ * nothing to do.
+ */
+export async function claimRun(db: RunDb, runId: string, jobId: string, workerId: string): Promise<ClaimedRun | null> {
   const [row] = await update<ClaimedRow>(
     db,
-    `UPDATE runs SET status = $3, started_at = now(), attempts = attempts + 1, worker_id = $2, windows_done = 0
-      WHERE id = $1 AND status = ANY($4::text[])
+    `UPDATE runs SET status = $4, started_at = now(), heartbeat_at = now(), attempts = attempts + 1, worker_id = $3, windows_done = 0
+      WHERE id = $1 AND job_id = $2 AND status = ANY($5::text[])
       RETURNING tenant_id, attempts, spec, steps, units, time_limit_seconds, cancel_requested_at`,
-    [runId, workerId, RUN_TRANSITIONS[transition].to, fromStates(transition)],
+    [runId, jobId, workerId, RUN_TRANSITIONS.claim.to, fromStates('claim')],
   );
   if (!row) return null;
   return {
@@ -88,32 +95,32 @@ async function startAttempt(db: RunDb, runId: string, workerId: string, transiti
 }
 
 /**
- * queued → running under the next attempt number. Null when the run is not queued: cancelled
- * before it started, finished, or held by another worker (see `takeOverRun`).
+ * running (under `attempt`) → queued, with a new job and round (`placeInQueue`): the attempt's
+ * worker is gone or its attempt ended without an ending (`runs/orphan-sweep.ts` decides). The
+ * attempt count stays, so the next claim is the next attempt; should the old attempt still be
+ * alive, its next `recordProgress` answers `superseded` and none of its endings take effect.
+ * False when the run is no longer running under that attempt.
  */
-export function claimRun(db: RunDb, runId: string, workerId: string): Promise<ClaimedRun | null> {
-  return startAttempt(db, runId, workerId, 'claim');
+export async function requeueRun(db: RunDb, held: { runId: string; attempt: number }, place: QueuePlace): Promise<boolean> {
+  const rows = await update(
+    db,
+    `UPDATE runs SET status = $3, worker_id = NULL, heartbeat_at = NULL, job_id = $4, queue_round = $5
+      WHERE id = $1 AND attempts = $2 AND status = ANY($6::text[]) RETURNING id`,
+    [held.runId, held.attempt, RUN_TRANSITIONS.requeue.to, place.jobId, place.round, fromStates('requeue')],
+  );
+  return rows.length > 0;
 }
 
 /**
- * running → running under the next attempt number: the retry of a crashed attempt. pg-boss hands
- * a job out again only once it expired, that is once the worker holding it stopped answering; should
- * that worker still be alive, its next `recordProgress` answers `superseded` and none of its ending
- * transitions can take effect any more. Null when the run is not running.
- */
-export function takeOverRun(db: RunDb, runId: string, workerId: string): Promise<ClaimedRun | null> {
-  return startAttempt(db, runId, workerId, 'takeOver');
-}
-
-/**
- * Writes the attempt's progress (null: nothing new) and reads, in the same statement, whether the
- * attempt is to go on. Applies to a running run under `attempt`; on any other row nothing is
- * written and the answer is `superseded`, so an attempt a retry has taken over yields.
+ * The attempt's heartbeat: writes its progress (null: nothing new) and the time, and reads, in the
+ * same statement, whether the attempt is to go on. Applies to a running run under `attempt`; on
+ * any other row nothing is written and the answer is `superseded`, so an attempt whose run was
+ * queued again yields.
  */
 export async function recordProgress(db: RunDb, claimed: ClaimedRun, progress: Progress | null): Promise<WatchVerdict> {
   const [row] = await update<{ cancel_requested_at: Date | null }>(
     db,
-    `UPDATE runs SET windows_done = coalesce($3, windows_done), windows_total = coalesce($4, windows_total)
+    `UPDATE runs SET windows_done = coalesce($3, windows_done), windows_total = coalesce($4, windows_total), heartbeat_at = now()
       WHERE id = $1 AND attempts = $2 AND status = ANY($5::text[]) RETURNING cancel_requested_at`,
     [claimed.runId, claimed.attempt, progress?.windowsDone ?? null, progress?.windowsTotal ?? null, fromStates('recordProgress')],
   );
@@ -187,18 +194,18 @@ export function cancelRunningRun(db: RunDb, claimed: ClaimedRun, message: string
 }
 
 /**
- * queued → cancelled at once; the job, when a worker takes it, finds nothing to claim and
- * completes. Null when the run is not queued.
+ * queued → cancelled at once. Null when the run is not queued. The answer names the run's job,
+ * which can no longer start it, so the caller can take it out of the queue.
  */
-export async function cancelQueuedRun(db: RunDb, runId: string): Promise<EndedRun | null> {
+export async function cancelQueuedRun(db: RunDb, runId: string): Promise<(EndedRun & { jobId: string | null }) | null> {
   const status = RUN_TRANSITIONS.cancelQueued.to;
-  const [row] = await update<{ finished_at: Date }>(
+  const [row] = await update<{ finished_at: Date; job_id: string | null }>(
     db,
     `UPDATE runs SET status = $2, cancel_requested_at = now(), finished_at = now(), error = $3
-      WHERE id = $1 AND status = ANY($4::text[]) RETURNING finished_at`,
+      WHERE id = $1 AND status = ANY($4::text[]) RETURNING finished_at, job_id`,
     [runId, status, JSON.stringify({ code: 'cancelled', message: 'Cancelled before it started.' }), fromStates('cancelQueued')],
   );
-  return row ? { status, finishedAt: row.finished_at } : null;
+  return row ? { status, finishedAt: row.finished_at, jobId: row.job_id } : null;
 }
 
 /**
@@ -216,17 +223,24 @@ export async function requestCancel(db: RunDb, runId: string): Promise<boolean> 
 }
 
 /**
- * queued | running → failed (`worker-lost`): pg-boss dead-lettered the job after its retries, every
- * worker that took it having died. Whatever attempt holds the run can no longer end it. Null when
- * the run had already ended, so a second dead letter changes nothing.
+ * queued | running → failed (`worker-lost`), for the run's current job only: the run's workers were
+ * lost more often than RUN_RETRY_LIMIT allows, or pg-boss dead-lettered the job after its handler
+ * kept failing. Whatever attempt holds the run can no longer end it. Null when the run had already
+ * ended or `jobId` is a job the run has left behind, so a stale or second dead letter changes nothing.
  */
-export async function deadLetterRun(db: RunDb, runId: string): Promise<EndedRun | null> {
+export async function deadLetterRun(db: RunDb, runId: string, jobId: string): Promise<EndedRun | null> {
   const status = RUN_TRANSITIONS.deadLetter.to;
   const [row] = await update<{ finished_at: Date }>(
     db,
     `UPDATE runs SET status = $2, finished_at = now(), error = $3
-      WHERE id = $1 AND status = ANY($4::text[]) RETURNING finished_at`,
-    [runId, status, JSON.stringify({ code: 'worker-lost', message: 'The workers solving this run stopped responding too many times.' }), fromStates('deadLetter')],
+      WHERE id = $1 AND job_id = $5 AND status = ANY($4::text[]) RETURNING finished_at`,
+    [
+      runId,
+      status,
+      JSON.stringify({ code: 'worker-lost', message: 'The workers solving this run stopped responding too many times.' }),
+      fromStates('deadLetter'),
+      jobId,
+    ],
   );
   return row ? { status, finishedAt: row.finished_at } : null;
 }

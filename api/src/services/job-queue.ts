@@ -3,6 +3,7 @@ import type { EntityManager } from 'typeorm';
 import type { Config } from '../config';
 import type { AppContext } from '../context';
 import type { Logger } from '../lib/logger';
+import { QUEUE_WAKE_CHANNEL } from './worker-presence';
 
 export const WEBHOOK_QUEUE = 'webhook-delivery';
 export const WEBHOOK_DEAD_QUEUE = 'webhook-delivery-dead';
@@ -73,14 +74,16 @@ export function onTransaction(manager: EntityManager) {
   return { executeSql: async (text: string, values: unknown[]) => ({ rows: await manager.query(text, values) }) };
 }
 
-export async function enqueueWebhookDelivery(
-  ctx: Pick<AppContext, 'boss' | 'config'>,
-  manager: EntityManager | null,
-  deliveryId: string,
-): Promise<void> {
+/** Rings the idle consumers of `queue` once the caller's transaction commits (they LISTEN through `WorkerPresence`). */
+export async function wakeConsumers(manager: EntityManager, queue: string): Promise<void> {
+  await manager.query('SELECT pg_notify($1, $2)', [QUEUE_WAKE_CHANNEL, queue]);
+}
+
+/** Sends a delivery's job on the caller's transaction; only `webhook-dispatch.ts` decides when. */
+export async function enqueueWebhookDelivery(ctx: Pick<AppContext, 'boss' | 'config'>, manager: EntityManager, deliveryId: string): Promise<void> {
   const boss = await startQueue(ctx);
   const id = await boss.send(WEBHOOK_QUEUE, { deliveryId } satisfies WebhookJobData, {
-    ...(manager ? { db: onTransaction(manager) } : {}),
+    db: onTransaction(manager),
     retryLimit: ctx.config.webhookRetryLimit,
     retryDelay: ctx.config.webhookRetryDelaySeconds,
     retryBackoff: true,
@@ -88,4 +91,5 @@ export async function enqueueWebhookDelivery(
     expireInSeconds: Math.ceil(ctx.config.webhookTimeoutMs / 1000) + 30,
   });
   if (!id) throw new Error(`the queue refused webhook delivery ${deliveryId}`);
+  await wakeConsumers(manager, WEBHOOK_QUEUE);
 }

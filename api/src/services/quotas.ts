@@ -119,6 +119,25 @@ export async function assertRunAllowed(
   assertQuotaLeft('solverSeconds', limits, used, period);
 }
 
+/**
+ * Call inside the transaction that creates a webhook endpoint. A per-tenant transaction lock keeps
+ * two creations racing for the last endpoint of the plan from both passing.
+ */
+export async function assertWebhookEndpointAllowed(ctx: AppContext, manager: EntityManager, tenantId: string): Promise<void> {
+  const limits = await getTenantLimits(ctx, tenantId, manager);
+  await manager.query('SELECT pg_advisory_xact_lock(hashtextextended($1, 0))', [`webhook-endpoints:${tenantId}`]);
+  const [{ n }]: { n: number }[] = await manager.query('SELECT count(*)::int AS n FROM webhook_endpoints WHERE tenant_id = $1', [tenantId]);
+  const limit = limits.webhookEndpoints;
+  if (n < limit) return;
+  throw new HttpProblem({
+    status: 422,
+    slug: 'plan-webhook-endpoints',
+    title: 'More webhook endpoints than the plan allows',
+    detail: `The tenant has ${n} webhook endpoints; the plan allows ${limit}. Delete one, or ask for a plan or limit that allows more.`,
+    extensions: { limit, count: n },
+  });
+}
+
 const THRESHOLDS = [80, 100] as const;
 
 /** Records what a finished run used (idempotent per run) and warns the owners at 80 % and 100 %, once per period each. */

@@ -8,7 +8,7 @@ import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
 import { inviteMember } from './members';
 
-export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns'] as const;
+export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns', 'webhookEndpoints'] as const;
 export type LimitName = (typeof LIMIT_NAMES)[number];
 export type TenantLimits = Record<LimitName, number>;
 

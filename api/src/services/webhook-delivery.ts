@@ -1,28 +1,33 @@
-import type PgBoss from 'pg-boss';
 import { Webhook } from 'standardwebhooks';
 import type { AppContext } from '../context';
 import type { DeliveryAttempt } from '../db/entities/webhook-delivery';
 import { WebhookDelivery } from '../db/entities/webhook-delivery';
 import { WebhookEndpoint } from '../db/entities/webhook-endpoint';
+import { JobPump } from './job-pump';
 import { composeMail, sendMail, tenantOwnerEmails } from './mail';
 import { startQueue, WEBHOOK_DEAD_QUEUE, WEBHOOK_QUEUE, type WebhookJobData } from './job-queue';
 import { guardedPost } from './ssrf-guard';
+import { dispatchNextDelivery } from './webhook-dispatch';
+import type { WorkerPresence } from './worker-presence';
 
 export class DeliveryFailedError extends Error {}
 
 /**
- * One attempt at one delivery. Signed per Standard Webhooks (`webhook-id`, `webhook-timestamp`,
- * `webhook-signature: v1,<base64 HMAC-SHA256 of id.timestamp.body>`). A 2xx answer delivers it;
- * anything else (including a redirect, which is never followed) throws so pg-boss retries with
- * exponential backoff, until the retry limit or until the endpoint is disabled after
- * `webhookDisableAfterFailures` consecutive failures. The receiver's body is never interpreted.
+ * One attempt at one delivery, within WEBHOOK_TIMEOUT_MS for the whole exchange. Signed per
+ * Standard Webhooks (`webhook-id`, `webhook-timestamp`, `webhook-signature: v1,<base64
+ * HMAC-SHA256 of id.timestamp.body>`). A 2xx answer delivers it; anything else (including a
+ * redirect, which is never followed) throws so pg-boss retries with exponential backoff, until the
+ * retry limit or until the endpoint is disabled after `webhookDisableAfterFailures` consecutive
+ * failures. The receiver's body is never interpreted. The transaction that ends a delivery
+ * dispatches its endpoint's next one (`webhook-dispatch.ts`).
  */
 export async function attemptDelivery(ctx: AppContext, deliveryId: string, isLastAttempt: boolean): Promise<void> {
   const delivery = await ctx.db.manager.findOneBy(WebhookDelivery, { id: deliveryId });
   if (!delivery || delivery.status !== 'pending') return;
   const endpoint = await ctx.db.manager.findOneBy(WebhookEndpoint, { id: delivery.endpointId });
-  if (!endpoint || !endpoint.enabled) {
-    await ctx.db.query(`UPDATE webhook_deliveries SET status = 'abandoned' WHERE id = $1 AND status = 'pending'`, [deliveryId]);
+  if (!endpoint) return;
+  if (!endpoint.enabled) {
+    await ctx.db.query(`UPDATE webhook_deliveries SET status = 'abandoned' WHERE endpoint_id = $1 AND status = 'pending'`, [endpoint.id]);
     return;
   }
 
@@ -58,6 +63,7 @@ export async function attemptDelivery(ctx: AppContext, deliveryId: string, isLas
         [deliveryId, JSON.stringify([attempt])],
       );
       await m.query('UPDATE webhook_endpoints SET consecutive_failures = 0 WHERE id = $1', [endpoint.id]);
+      await dispatchNextDelivery(ctx, m, endpoint.id);
     });
     return;
   }
@@ -78,6 +84,7 @@ export async function attemptDelivery(ctx: AppContext, deliveryId: string, isLas
       JSON.stringify([attempt]),
       stop,
     ]);
+    if (stop) await dispatchNextDelivery(ctx, m, endpoint.id);
     return { disabledNow: Boolean(row?.disabled_now && !row.enabled), giveUp: stop };
   });
   if (disabledNow) await tellOwnersEndpointDisabled(ctx, endpoint);
@@ -102,21 +109,46 @@ async function tellOwnersEndpointDisabled(ctx: AppContext, endpoint: WebhookEndp
   }
 }
 
-/** Subscribes the delivery queue and its dead letters (a delivery whose worker kept crashing ends failed). */
-export async function startWebhookWorker(ctx: AppContext): Promise<{ stop(): Promise<void> }> {
-  const boss: PgBoss = await startQueue(ctx);
-  const options = { batchSize: 1, includeMetadata: true as const, pollingIntervalSeconds: ctx.config.queuePollingSeconds };
-  const ids = [
-    await boss.work<WebhookJobData>(WEBHOOK_QUEUE, options, async ([job]) => {
-      await attemptDelivery(ctx, job.data.deliveryId, job.retryCount >= job.retryLimit);
-    }),
-    await boss.work<WebhookJobData>(WEBHOOK_DEAD_QUEUE, options, async ([job]) => {
-      await ctx.db.query(`UPDATE webhook_deliveries SET status = 'failed' WHERE id = $1 AND status = 'pending'`, [job.data.deliveryId]);
-    }),
-  ];
+/** A delivery whose job kept failing (its workers crashed) ends failed, and its endpoint's next goes out. */
+async function endDeadLetteredDelivery(ctx: AppContext, deliveryId: string): Promise<void> {
+  await ctx.db.transaction(async (m) => {
+    const [rows]: [{ endpoint_id: string }[], number] = await m.query(
+      `UPDATE webhook_deliveries SET status = 'failed' WHERE id = $1 AND status = 'pending' RETURNING endpoint_id`,
+      [deliveryId],
+    );
+    if (rows.length) await dispatchNextDelivery(ctx, m, rows[0].endpoint_id);
+  });
+}
+
+/**
+ * Attempts deliveries in WEBHOOK_CONCURRENCY slots and ends dead-lettered ones. With a worker's
+ * presence it is woken as soon as a delivery is dispatched; without one it polls. A receiver that
+ * answers slowly holds one slot for at most WEBHOOK_TIMEOUT_MS.
+ */
+export async function startWebhookWorker(ctx: AppContext, presence?: WorkerPresence): Promise<{ stop(graceMs?: number): Promise<void> }> {
+  const boss = await startQueue(ctx);
+  const pollMs = ctx.config.queuePollingSeconds * 1000;
+  const deliveries = new JobPump<WebhookJobData>({
+    boss,
+    queue: WEBHOOK_QUEUE,
+    slots: ctx.config.webhookConcurrency,
+    pollMs,
+    log: ctx.log,
+    handle: (job) => attemptDelivery(ctx, job.data.deliveryId, job.retryCount >= job.retryLimit),
+  }).start();
+  const deadLetters = new JobPump<WebhookJobData>({
+    boss,
+    queue: WEBHOOK_DEAD_QUEUE,
+    slots: 1,
+    pollMs,
+    log: ctx.log,
+    handle: (job) => endDeadLetteredDelivery(ctx, job.data.deliveryId),
+  }).start();
+  const unsubscribe = presence?.onWake(WEBHOOK_QUEUE, () => deliveries.wake());
   return {
-    async stop() {
-      for (const id of ids) await boss.offWork({ id });
+    async stop(graceMs?: number) {
+      unsubscribe?.();
+      await Promise.all([deliveries.stop(graceMs), deadLetters.stop(graceMs)]);
     },
   };
 }

@@ -6,9 +6,10 @@ import { WebhookDelivery } from '../db/entities/webhook-delivery';
 import { WebhookEndpoint, type WebhookEvent } from '../db/entities/webhook-endpoint';
 import { notFound, validationProblem } from '../lib/problem';
 import { isUuid } from '../lib/uuid';
-import { enqueueWebhookDelivery } from './job-queue';
 import { runLinks } from '../runs/view';
+import { assertWebhookEndpointAllowed } from './quotas';
 import { assertSafeWebhookUrl, UnsafeUrlError } from './ssrf-guard';
+import { dispatchNextDelivery } from './webhook-dispatch';
 
 export const WEBHOOK_EVENTS: readonly WebhookEvent[] = ['run.succeeded', 'run.failed', 'run.cancelled'];
 export const TEST_EVENT = 'webhook.test';
@@ -36,12 +37,13 @@ function runEventData(run: Run) {
 
 /**
  * Queues one delivery per enabled endpoint subscribed to `event`, in the caller's transaction so
- * the event exists exactly when the run's final state does.
+ * the event exists exactly when the run's final state does; each goes out in its endpoint's turn.
  */
 export async function enqueueRunEvent(ctx: AppContext, manager: EntityManager, runId: string, event: WebhookEvent): Promise<void> {
   const run = await manager.findOneByOrFail(Run, { id: runId });
+  // In the order of their ids: the order in which `dispatchNextDelivery` locks endpoints.
   const endpoints: { id: string }[] = await manager.query(
-    'SELECT id FROM webhook_endpoints WHERE tenant_id = $1 AND enabled AND $2 = ANY(events)',
+    'SELECT id FROM webhook_endpoints WHERE tenant_id = $1 AND enabled AND $2 = ANY(events) ORDER BY id',
     [run.tenantId, event],
   );
   const payload = eventPayload(event, runEventData(run));
@@ -51,7 +53,7 @@ export async function enqueueRunEvent(ctx: AppContext, manager: EntityManager, r
        VALUES ($1, $2, $3, $4, $5, $6) ON CONFLICT DO NOTHING RETURNING id`,
       [run.tenantId, endpoint.id, run.id, event, newMessageId(), JSON.stringify(payload)],
     );
-    if (rows.length) await enqueueWebhookDelivery(ctx, manager, rows[0].id);
+    if (rows.length) await dispatchNextDelivery(ctx, manager, endpoint.id);
   }
 }
 
@@ -107,16 +109,20 @@ export interface EndpointInput {
   description?: string | null;
 }
 
+/** Up to the plan's cap on endpoints per tenant (422 above it). */
 export async function createEndpoint(ctx: AppContext, tenantId: string, input: EndpointInput) {
   const url = await checkedUrl(ctx, input.url);
   const events = checkedEvents(input.events ?? [...WEBHOOK_EVENTS]);
   const secret = newSigningSecret();
-  const [row] = await ctx.db.query(
-    `INSERT INTO webhook_endpoints (tenant_id, url, description, events, secret) VALUES ($1, $2, $3, $4, $5) RETURNING id`,
-    [tenantId, url, input.description ?? null, events, secret],
-  );
-  const endpoint = await ctx.db.manager.findOneByOrFail(WebhookEndpoint, { id: row.id });
-  return { endpoint, secret };
+  return ctx.db.transaction(async (manager) => {
+    await assertWebhookEndpointAllowed(ctx, manager, tenantId);
+    const [row] = await manager.query(
+      `INSERT INTO webhook_endpoints (tenant_id, url, description, events, secret) VALUES ($1, $2, $3, $4, $5) RETURNING id`,
+      [tenantId, url, input.description ?? null, events, secret],
+    );
+    const endpoint = await manager.findOneByOrFail(WebhookEndpoint, { id: row.id });
+    return { endpoint, secret };
+  });
 }
 
 export async function getEndpoint(ctx: AppContext, tenantId: string, id: string): Promise<WebhookEndpoint> {
@@ -173,7 +179,7 @@ export async function sendTestEvent(ctx: AppContext, tenantId: string, id: strin
       `INSERT INTO webhook_deliveries (tenant_id, endpoint_id, event, message_id, payload) VALUES ($1, $2, $3, $4, $5) RETURNING id`,
       [tenantId, endpoint.id, TEST_EVENT, newMessageId(), JSON.stringify(payload)],
     );
-    await enqueueWebhookDelivery(ctx, manager, row.id);
+    await dispatchNextDelivery(ctx, manager, endpoint.id);
     return manager.findOneByOrFail(WebhookDelivery, { id: row.id });
   });
 }

@@ -63,6 +63,7 @@ const limitLabels: Record<keyof Schemas['Limits'], string> = {
   maxUnits: 'Units per run',
   requestsPerSecond: 'Requests per second (per credential)',
   concurrentRuns: 'Runs solving at once',
+  webhookEndpoints: 'Webhook endpoints',
 };
 
 export function LimitsList({ limits, overrides }: { limits: Schemas['Limits']; overrides?: Record<string, unknown> }) {

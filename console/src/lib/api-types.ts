@@ -602,6 +602,8 @@ export interface paths {
          *     time, with `Idempotent-Replayed: true`), the same key with a different body is `422`.
          *     Keys belong to your tenant and are remembered for `IDEMPOTENCY_HOURS` (default 24 hours).
          *     The plan's caps on steps and units (`422`), the monthly quotas and the plan's cap on runs queued or running at once (`429`, type `/problems/concurrent-runs`) are checked here.
+         *     Queued runs start in turn across tenants: each tenant's runs start in the order they were
+         *     submitted, and one tenant's backlog holds another tenant's run back by at most one of its own.
          */
         post: operations["createRun"];
         delete?: never;
@@ -811,7 +813,10 @@ export interface paths {
          *     followed; the answer's body is read up to `WEBHOOK_MAX_RESPONSE_BYTES` and ignored. After
          *     `WEBHOOK_DISABLE_AFTER_FAILURES` (default 20) consecutive failures the endpoint is disabled and
          *     the tenant's owners are e-mailed. URLs must be https and resolve only to public addresses
-         *     (checked again at each delivery).
+         *     (checked again at each delivery). Deliveries to one endpoint go out one at a time, in the
+         *     order of their events (a delivery waiting for its retry holds back that endpoint's later
+         *     ones, never another endpoint's). The plan caps the endpoints a tenant may have
+         *     (`limits.webhookEndpoints`); above it the answer is `422`, type `/problems/plan-webhook-endpoints`.
          */
         post: operations["createWebhookEndpoint"];
         delete?: never;
@@ -1678,6 +1683,8 @@ export interface components {
             /** @description Per credential; the tenant as a whole may use three times this. */
             requestsPerSecond: number;
             concurrentRuns: number;
+            /** @description Most webhook endpoints the tenant may have. */
+            webhookEndpoints: number;
         };
         Plan: {
             id: string;
@@ -2673,7 +2680,8 @@ export interface operations {
                      *             "maxSteps": 672,
                      *             "maxUnits": 5,
                      *             "requestsPerSecond": 5,
-                     *             "concurrentRuns": 1
+                     *             "concurrentRuns": 1,
+                     *             "webhookEndpoints": 2
                      *           }
                      *         }
                      *       ]
@@ -2872,6 +2880,7 @@ export interface operations {
                         /** @description May be fractional: 0.1 is one request every ten seconds. */
                         requestsPerSecond?: number | null;
                         concurrentRuns?: number | null;
+                        webhookEndpoints?: number | null;
                     };
                 };
             };
@@ -3580,6 +3589,15 @@ export interface operations {
             400: components["responses"]["BadRequest"];
             401: components["responses"]["Unauthorized"];
             403: components["responses"]["Forbidden"];
+            /** @description The tenant already has as many webhook endpoints as its plan allows (`limit` and `count` say how many). */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
         };
     };
     getWebhookEndpoint: {

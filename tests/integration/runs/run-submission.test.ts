@@ -139,12 +139,13 @@ describe('submitting and reading runs', () => {
     expect(badCursor.status).toBe(400);
   });
 
-  it('ends a dead-lettered run (its workers kept dying) failed instead of leaving it hanging', async () => {
+  it('ends a dead-lettered run (its job kept failing) failed instead of leaving it hanging', async () => {
     const res = await request(t.app).post('/v1/runs').set(bearer(key)).send(smallSpec({ name: 'dead' })).expect(202);
-    await endDeadLetteredRun(t.ctx, res.body.id);
+    const [{ job_id: jobId }] = await t.ctx.db.query('SELECT job_id FROM runs WHERE id = $1', [res.body.id]);
+    await endDeadLetteredRun(t.ctx, { runId: res.body.id, jobId });
     const run = await request(t.app).get(`/v1/runs/${res.body.id}`).set(bearer(key)).expect(200);
     expect(run.body).toMatchObject({ status: 'failed', error: { code: 'worker-lost' } });
-    await endDeadLetteredRun(t.ctx, res.body.id);
+    await endDeadLetteredRun(t.ctx, { runId: res.body.id, jobId });
     expect((await request(t.app).get(`/v1/runs/${res.body.id}`).set(bearer(key))).body.finishedAt).toBe(run.body.finishedAt);
   });
 });

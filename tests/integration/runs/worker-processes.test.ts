@@ -6,44 +6,69 @@ import { bearer, FAST_QUEUE_ENV, slowSpec, smallSpec, waitForRun } from './run-h
 import { spawnWorker, type WorkerProcess } from './worker-process';
 
 // The API runs in this process with no worker; the solving happens in separate worker processes.
-const QUEUE_ENV = { ...FAST_QUEUE_ENV, RUN_EXPIRY_GRACE_SECONDS: '2' };
-
-// Both tests share the two worker processes: first they share 30 runs, then one is killed mid-solve.
+// Nothing here depends on how fast the machine is: no run is ever taken from a live worker
+// because it is slow, and a dead worker is recognised by its presence lock, not by a clock.
 describe('worker processes sharing one database', () => {
   let t: TestApp;
   let key: string;
   let workers: WorkerProcess[] = [];
   beforeAll(async () => {
-    t = await startTestApp(QUEUE_ENV);
+    t = await startTestApp(FAST_QUEUE_ENV);
     key = (await createTenantWithKey(t.ctx)).apiKey;
-    workers = await Promise.all([spawnWorker(t.databaseUrl, QUEUE_ENV), spawnWorker(t.databaseUrl, QUEUE_ENV)]);
   });
   afterAll(async () => {
     await Promise.all(workers.map((w) => w.stop()));
     await t.close();
   });
 
-  it('solve 30 runs, each exactly once, both taking a share', { timeout: 120_000 }, async () => {
+  async function until<T>(what: string, probe: () => Promise<T | undefined>, timeoutMs = 60_000): Promise<T> {
+    const deadline = Date.now() + timeoutMs;
+    for (;;) {
+      const found = await probe();
+      if (found !== undefined) return found;
+      if (Date.now() > deadline) throw new Error(`${what}: not within ${timeoutMs} ms`);
+      await new Promise((r) => setTimeout(r, 50));
+    }
+  }
+
+  it('solve 30 runs, each exactly once, both taking a share', { timeout: 180_000 }, async () => {
     const ids: string[] = [];
     for (let i = 0; i < 30; i++) {
       const supply = smallSpec().supply.availableKw.map((v) => v + i);
       ids.push((await request(t.app).post('/v1/runs').set(bearer(key)).send(smallSpec({ name: `share-${i}`, supply: { availableKw: supply } })).expect(202)).body.id);
     }
-    for (const id of ids) expect((await waitForRun(t.app, key, id, undefined, 90_000)).status).toBe('succeeded');
-    const rows: { attempts: number; worker_id: string }[] = await t.ctx.db.query('SELECT attempts, worker_id FROM runs WHERE id = ANY($1::uuid[])', [ids]);
+    // Hold every run's row while the workers start: each takes one job (one slot each) and waits in
+    // its claim, so both have claimed a run before either can take a second.
+    await t.ctx.db.transaction(async (manager) => {
+      await manager.query('SELECT id FROM runs WHERE id = ANY($1::uuid[]) FOR UPDATE', [ids]);
+      workers = await Promise.all([spawnWorker(t.databaseUrl, FAST_QUEUE_ENV), spawnWorker(t.databaseUrl, FAST_QUEUE_ENV)]);
+      await until('both workers waiting in a claim', async () => {
+        const [{ n }] = await t.ctx.db.query(`SELECT count(*)::int AS n FROM pgboss.job WHERE name = 'run-solve' AND state = 'active'`);
+        return n === 2 ? true : undefined;
+      });
+    });
+    for (const id of ids) expect((await waitForRun(t.app, key, id, undefined, 120_000)).status).toBe('succeeded');
+    // A job is completed last, after its run's ending and usage are written.
+    const jobs = await until('every run job settled', async () => {
+      const found: { id: string; state: string }[] = await t.ctx.db.query(`SELECT id, state FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = ANY($1::text[])`, [ids]);
+      return found.every((j) => j.state !== 'active' && j.state !== 'created' && j.state !== 'retry') ? found : undefined;
+    });
+    const rows: { attempts: number; worker_id: string; job_id: string }[] = await t.ctx.db.query('SELECT attempts, worker_id, job_id FROM runs WHERE id = ANY($1::uuid[])', [ids]);
     expect(rows.map((r) => r.attempts)).toEqual(new Array(30).fill(1));
     expect(new Set(rows.map((r) => r.worker_id))).toEqual(new Set(workers.map((w) => w.workerId)));
-    const jobs: { state: string; retry_count: number }[] = await t.ctx.db.query(`SELECT state, retry_count FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = ANY($1::text[])`, [ids]);
+    // One job per run, never replaced, and it is the job that started the run.
     expect(jobs).toHaveLength(30);
-    expect(jobs.every((j) => j.state === 'completed' && j.retry_count === 0)).toBe(true);
+    expect(new Set(jobs.map((j) => j.id))).toEqual(new Set(rows.map((r) => r.job_id)));
+    expect(jobs.map((j) => j.state)).toEqual(new Array(30).fill('completed'));
+    const [{ n: usage }] = await t.ctx.db.query('SELECT count(*)::int AS n FROM run_usage WHERE run_id = ANY($1::uuid[])', [ids]);
+    expect(usage).toBe(30);
   });
 
-  it('has its run retried by pg-boss after the job expires, solved once more and succeeded; nothing is lost', { timeout: 90_000 }, async () => {
-    // About 12 windows, several seconds: the kill lands mid-solve. Expiry = the run's time limit
-    // (12 s) + RUN_EXPIRY_GRACE_SECONDS (2 s).
-    const slow = await request(t.app).post('/v1/runs').set(bearer(key)).send({ ...slowSpec(2), solver: { ...slowSpec(2).solver, timeLimitSeconds: 12 } }).expect(202);
-    const running = await waitForRun(t.app, key, slow.body.id, (r) => r.status === 'running' && r.progress.windowsDone >= 1);
-    const [{ worker_id: holder }] = await t.ctx.db.query('SELECT worker_id FROM runs WHERE id = $1', [slow.body.id]);
+  it('queues the run of a SIGKILLed worker again at once; the other worker solves it, nothing is lost', { timeout: 180_000 }, async () => {
+    // About 12 windows, several seconds: the kill lands mid-solve.
+    const slow = await request(t.app).post('/v1/runs').set(bearer(key)).send(slowSpec(2)).expect(202);
+    const running = await waitForRun(t.app, key, slow.body.id, (r) => r.status === 'running' && r.progress.windowsDone >= 1, 60_000);
+    const [{ worker_id: holder, job_id: firstJob }] = await t.ctx.db.query('SELECT worker_id, job_id FROM runs WHERE id = $1', [slow.body.id]);
     const victim = workers.find((w) => w.workerId === holder)!;
     expect(victim).toBeDefined();
     victim.child.kill('SIGKILL');
@@ -51,11 +76,21 @@ describe('worker processes sharing one database', () => {
     expect(running.attempts).toBe(1);
 
     const others = await Promise.all([1, 2, 3].map((i) => request(t.app).post('/v1/runs').set(bearer(key)).send(smallSpec({ name: `after-kill-${i}` })).expect(202)));
-    const done = await waitForRun(t.app, key, slow.body.id, undefined, 60_000);
+    const done = await waitForRun(t.app, key, slow.body.id, undefined, 120_000);
     expect(done.status).toBe('succeeded');
     expect(done.attempts).toBe(2);
-    const [{ worker_id: finisher }] = await t.ctx.db.query('SELECT worker_id FROM runs WHERE id = $1', [slow.body.id]);
+    const [{ worker_id: finisher, job_id: secondJob }] = await t.ctx.db.query('SELECT worker_id, job_id FROM runs WHERE id = $1', [slow.body.id]);
     expect(finisher).not.toBe(holder);
-    for (const o of others) expect((await waitForRun(t.app, key, o.body.id)).status).toBe('succeeded');
+    expect(secondJob).not.toBe(firstJob);
+    // The dead worker's job left the queue when the run was queued again under a new one, which
+    // is completed last, after the run's ending and usage.
+    const jobs = await until('the second job settled', async () => {
+      const found: { id: string; state: string }[] = await t.ctx.db.query(`SELECT id, state FROM pgboss.job WHERE name = 'run-solve' AND data->>'runId' = $1`, [slow.body.id]);
+      return found.some((j) => j.id === secondJob && j.state !== 'active') ? found : undefined;
+    });
+    expect(Object.fromEntries(jobs.map((j) => [j.id, j.state]))).toEqual({ [firstJob]: 'cancelled', [secondJob]: 'completed' });
+    for (const o of others) expect((await waitForRun(t.app, key, o.body.id, undefined, 60_000)).status).toBe('succeeded');
+    const [{ n: usage }] = await t.ctx.db.query('SELECT count(*)::int AS n FROM run_usage WHERE run_id = $1', [slow.body.id]);
+    expect(usage).toBe(1);
   });
 });

@@ -10,7 +10,7 @@ import { createApiKey } from '../../../api/src/services/api-keys';
 import { createTenant } from '../../../api/src/services/tenants';
 import { spawnTs, waitFor, type Child } from './child-process';
 
-/** What every soak child process gets: production settings, loopback webhooks, fast crash recovery. */
+/** What every soak child process gets: production settings (the queue's defaults too) and loopback webhooks. */
 export function childEnv(databaseUrl: string, extra: Record<string, string> = {}): Record<string, string> {
   return {
     NODE_ENV: 'production',
@@ -20,10 +20,6 @@ export function childEnv(databaseUrl: string, extra: Record<string, string> = {}
     LOG_LEVEL: 'warn',
     SEED_DEMO: 'false',
     WEBHOOK_ALLOW_LOOPBACK: 'true',
-    // A killed worker's run is picked up again soon after its time limit (the crash scenario).
-    RUN_EXPIRY_GRACE_SECONDS: '3',
-    QUEUE_MAINTENANCE_SECONDS: '1',
-    QUEUE_POLLING_SECONDS: '0.5',
     ...extra,
   };
 }

@@ -11,5 +11,6 @@ export class Plan {
   @Column('integer', { name: 'max_units' }) maxUnits!: number;
   @Column('integer', { name: 'requests_per_second' }) requestsPerSecond!: number;
   @Column('integer', { name: 'concurrent_runs' }) concurrentRuns!: number;
+  @Column('integer', { name: 'webhook_endpoints' }) webhookEndpoints!: number;
   @Column('integer', { name: 'sort_order' }) sortOrder!: number;
 }

@@ -27,6 +27,12 @@ export class Run {
   @Column('integer', { name: 'windows_total', nullable: true }) windowsTotal!: number | null;
   @Column('integer') attempts!: number;
   @Column('text', { name: 'worker_id', nullable: true }) workerId!: string | null;
+  /** The queue job that may start the run; any other job for it finds nothing to claim. */
+  @Column('uuid', { name: 'job_id', nullable: true }) jobId!: string | null;
+  /** The tenant-fair round the run is queued in (runs/queue.ts). */
+  @Column('integer', { name: 'queue_round' }) queueRound!: number;
+  /** Last sign of life of the attempt holding the run. */
+  @Column('timestamptz', { name: 'heartbeat_at', nullable: true }) heartbeatAt!: Date | null;
   @Column('jsonb', { nullable: true }) result!: Record<string, unknown> | null;
   @Column('jsonb', { nullable: true }) error!: RunError | null;
   @Column('text', { name: 'solver_log' }) solverLog!: string;

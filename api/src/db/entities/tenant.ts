@@ -1,6 +1,8 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
 
-export type LimitOverrides = Partial<Record<'monthlyRuns' | 'monthlySolverSeconds' | 'maxSteps' | 'maxUnits' | 'requestsPerSecond' | 'concurrentRuns', number>>;
+export type LimitOverrides = Partial<
+  Record<'monthlyRuns' | 'monthlySolverSeconds' | 'maxSteps' | 'maxUnits' | 'requestsPerSecond' | 'concurrentRuns' | 'webhookEndpoints', number>
+>;
 
 @Entity('tenants')
 export class Tenant {

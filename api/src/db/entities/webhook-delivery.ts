@@ -20,4 +20,6 @@ export class WebhookDelivery {
   @Column('text') status!: 'pending' | 'succeeded' | 'failed' | 'abandoned';
   @Column('jsonb') attempts!: DeliveryAttempt[];
   @Column('timestamptz', { name: 'delivered_at', nullable: true }) deliveredAt!: Date | null;
+  /** When the delivery got its queue job: an endpoint has at most one pending delivery with one. */
+  @Column('timestamptz', { name: 'dispatched_at', nullable: true }) dispatchedAt!: Date | null;
 }

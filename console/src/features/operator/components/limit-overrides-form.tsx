@@ -11,6 +11,7 @@ const fields: { key: keyof Limits; label: string }[] = [
   { key: 'maxUnits', label: 'Units per run' },
   { key: 'requestsPerSecond', label: 'Requests per second' },
   { key: 'concurrentRuns', label: 'Concurrent runs' },
+  { key: 'webhookEndpoints', label: 'Webhook endpoints' },
 ];
 
 /** One field per limit; an empty field removes the override, so the plan's value applies again. */

@@ -36,7 +36,7 @@ export function UsageRoute() {
                   <span className="font-medium">{p.name}</span>
                   {p.id === plan?.id && <span className="ml-2 rounded bg-ash-900 px-1.5 text-[10px] text-white">current</span>}
                   <span className="ml-2 font-mono text-xs text-ash-500">
-                    {p.limits.monthlyRuns} runs · {p.limits.maxSteps} steps · {p.limits.maxUnits} units
+                    {p.limits.monthlyRuns} runs · {p.limits.maxSteps} steps · {p.limits.maxUnits} units · {p.limits.webhookEndpoints} webhook endpoints
                   </span>
                   <p className="text-xs text-ash-500">{p.description}</p>
                 </li>
