@@ -45,6 +45,7 @@ export const environmentSchema = z
       .regex(/^\d+(\.\d+)?\s*(b|kb|mb|gb)?$/i, 'must be a size in bytes, or with a unit: 64kb, 8mb')
       .default('8mb'),
     JWT_SECRET: z.string().optional(),
+    METRICS_TOKEN: z.string().min(16, 'must be at least 16 characters').optional(),
     SESSION_MINUTES: wholeNumber(1).default(60),
     COOKIE_SECURE: flag.optional(),
     TRUST_PROXY: flag.default(false),
@@ -59,6 +60,7 @@ export const environmentSchema = z
     SIGNIN_LOCK_MINUTES: wholeNumber(1).default(15),
     INVITATION_HOURS: decimalNumber({ above: 0 }).default(72),
     PASSWORD_RESET_MINUTES: decimalNumber({ above: 0 }).default(60),
+    PASSWORD_RESET_EMAILS_PER_HOUR: wholeNumber(1).default(3),
     RATE_LIMIT_WINDOW_SECONDS: wholeNumber(1).default(10),
     WORKER_CONCURRENCY: wholeNumber(1).default(1),
     SOLVER_THREADS: wholeNumber(1).optional(),
@@ -116,6 +118,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     logLevel: e.LOG_LEVEL ?? (test ? 'silent' : 'info'),
     bodyLimit: e.BODY_LIMIT,
     jwtSecret: e.JWT_SECRET ?? localSecret(dataDir),
+    /** Bearer token /metrics asks for; null: only loopback clients are answered. */
+    metricsToken: e.METRICS_TOKEN ?? null,
     sessionMinutes: e.SESSION_MINUTES,
     cookieSecure: e.COOKIE_SECURE ?? production,
     trustProxy: e.TRUST_PROXY,
@@ -136,6 +140,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     signInLockMinutes: e.SIGNIN_LOCK_MINUTES,
     invitationHours: e.INVITATION_HOURS,
     passwordResetMinutes: e.PASSWORD_RESET_MINUTES,
+    /** Reset e-mails one address receives per hour at most; one client address may ask ten times as often. */
+    passwordResetEmailsPerHour: e.PASSWORD_RESET_EMAILS_PER_HOUR,
     bcryptRounds: e.BCRYPT_ROUNDS ?? (test ? 4 : 12),
     defaultPlan: e.DEFAULT_PLAN,
     /** A run's queue job expires (and is retried, as after a crash) this long after its solver time limit. */
