@@ -15,7 +15,7 @@ import type { AppContext } from './context';
 import { databaseReadiness } from './db/data-source';
 import { closeIfBodyUnread, documentedOperations } from './lib/documented-operations';
 import { errorHandler, notFoundHandler } from './lib/error-handler';
-import { problemType } from './lib/problem';
+import { HttpProblem, problemType } from './lib/problem';
 import { STRICT_ROUTING } from './lib/strict-router';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
@@ -39,7 +39,7 @@ const consoleDist = path.resolve(here, '../../console/dist');
  * Routes anyone may call (sign-in, password reset, invitations) take small bodies; BODY_LIMIT
  * applies once the caller is authenticated.
  */
-export const PUBLIC_BODY_LIMIT = '64kb';
+export const PUBLIC_BODY_LIMIT_BYTES = 64 * 1024;
 
 /** Every spelling of the API's prefix, so none slips past the contract: `/v1`, `/V1/…`. */
 export const isApiPath = (p: string) => /^\/v1(?:\/|$)/i.test(p);
@@ -131,11 +131,27 @@ export function buildApp(ctx: AppContext): Express {
   });
   app.use(cookieParser());
   app.use(authenticateFirst(ctx, operations));
-  const jsonBody = (limit: string, caller: 'authenticated' | 'public') =>
-    express.json({ limit, type: ['application/json', 'application/*+json'], verify: () => ctx.metrics.bodiesParsed.inc({ caller }) });
-  const authenticatedBody = jsonBody(ctx.config.bodyLimit, 'authenticated');
-  const publicBody = jsonBody(PUBLIC_BODY_LIMIT, 'public');
-  app.use((req, res, next) => (req.principal ? authenticatedBody : publicBody)(req, res, next));
+  const jsonBody = (limit: number, caller: 'authenticated' | 'public') => ({
+    limit,
+    parse: express.json({ limit, type: ['application/json', 'application/*+json'], verify: () => ctx.metrics.bodiesParsed.inc({ caller }) }),
+  });
+  const authenticatedBody = jsonBody(ctx.config.bodyLimitBytes, 'authenticated');
+  const publicBody = jsonBody(PUBLIC_BODY_LIMIT_BYTES, 'public');
+  app.use((req, res, next) => {
+    const body = req.principal ? authenticatedBody : publicBody;
+    // Refused on its declared length, before a byte is read: the parser would drain the whole body first.
+    const declared = Number(req.get('content-length') ?? 0);
+    if (declared > body.limit) {
+      closeIfBodyUnread(req, res);
+      throw new HttpProblem({
+        status: 413,
+        slug: 'payload-too-large',
+        title: 'Request body too large',
+        detail: `The body is ${declared} bytes; the limit is ${body.limit} bytes.`,
+      });
+    }
+    body.parse(req, res, next);
+  });
   app.use(
     OpenApiValidator.middleware({
       apiSpec: validatorDoc,

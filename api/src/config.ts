@@ -23,6 +23,15 @@ function decimalNumber(opts: { min: number } | { above: number }) {
     .transform(Number);
 }
 
+const BYTE_SIZE = /^(\d+(?:\.\d+)?)\s*(b|kb|mb|gb)?$/i;
+const BYTE_UNITS: Record<string, number> = { b: 1, kb: 1024, mb: 1024 ** 2, gb: 1024 ** 3 };
+
+/** `8mb` → 8 388 608: units of 1024, as body-parser reads them. */
+function byteSize(text: string): number {
+  const [, amount, unit] = BYTE_SIZE.exec(text.trim())!;
+  return Math.floor(Number(amount) * BYTE_UNITS[(unit ?? 'b').toLowerCase()]!);
+}
+
 const flag = z.enum(['true', 'false'], { error: 'must be true or false' }).transform((value) => value === 'true');
 
 /**
@@ -42,7 +51,7 @@ export const environmentSchema = z
     LOG_LEVEL: z.enum(LOG_LEVELS, { error: `must be one of ${LOG_LEVELS.join(', ')}` }).optional(),
     BODY_LIMIT: z
       .string()
-      .regex(/^\d+(\.\d+)?\s*(b|kb|mb|gb)?$/i, 'must be a size in bytes, or with a unit: 64kb, 8mb')
+      .regex(BYTE_SIZE, 'must be a size in bytes, or with a unit: 64kb, 8mb')
       .default('8mb'),
     JWT_SECRET: z.string().optional(),
     METRICS_TOKEN: z.string().min(16, 'must be at least 16 characters').optional(),
@@ -116,7 +125,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     publicUrl: (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
     dataDir,
     logLevel: e.LOG_LEVEL ?? (test ? 'silent' : 'info'),
-    bodyLimit: e.BODY_LIMIT,
+    /** Bytes of JSON body an authenticated caller may send. */
+    bodyLimitBytes: byteSize(e.BODY_LIMIT),
     jwtSecret: e.JWT_SECRET ?? localSecret(dataDir),
     /** Bearer token /metrics asks for; null: only loopback clients are answered. */
     metricsToken: e.METRICS_TOKEN ?? null,

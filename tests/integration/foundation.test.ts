@@ -5,7 +5,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { inject } from 'vitest';
 import { startCluster, type Cluster } from '../../scripts/lib/postgres.mjs';
-import { PUBLIC_BODY_LIMIT } from '../../api/src/app';
+import { PUBLIC_BODY_LIMIT_BYTES } from '../../api/src/app';
 import { createTenantWithKey } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
 
@@ -46,7 +46,7 @@ describe('the HTTP spine', () => {
     expectProblem(res, 413);
   });
 
-  it(`refuses a body over ${PUBLIC_BODY_LIMIT} on a public route with 413`, async () => {
+  it(`refuses a body over ${PUBLIC_BODY_LIMIT_BYTES} bytes on a public route with 413`, async () => {
     const res = await request(t.app).post('/v1/auth/sign-in').set('Content-Type', 'application/json').send(JSON.stringify({ email: 'a@example.test', password: 'x'.repeat(70 * 1024) }));
     expectProblem(res, 413);
   });
