@@ -44,5 +44,6 @@ export function documentedOperations(doc: Record<string, any>): DocumentedOperat
  * otherwise Node reads the rest of the body (and throws it away) to keep the connection alive.
  */
 export function closeIfBodyUnread(req: Request, res: Response): void {
-  if (!req.complete) res.setHeader('Connection', 'close');
+  const hasBody = Number(req.get('content-length') ?? 0) > 0 || req.get('transfer-encoding') !== undefined;
+  if (hasBody && !req.complete) res.setHeader('Connection', 'close');
 }
