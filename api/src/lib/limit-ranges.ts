@@ -22,7 +22,7 @@ export const LIMIT_RANGES: Record<LimitName, LimitRange> = {
   maxSteps: { integer: true, min: 1, max: MAX_STEPS },
   maxUnits: { integer: true, min: 0, max: MAX_UNITS },
   requestsPerSecond: { integer: false, min: 0, exclusiveMin: true, max: 1e6 },
-  concurrentRuns: { integer: true, min: 1, max: 1e4 },
+  concurrentRuns: { integer: true, min: 1, max: 1e6 },
 };
 
 export const isLimitName = (name: string): name is LimitName => (LIMIT_NAMES as readonly string[]).includes(name);
