@@ -6,13 +6,10 @@
 // fields; another spelling never reaches a handler; a refused request writes nothing.
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createUserSession } from '../support/tenants';
-import { startTestApp, type TestApp } from '../support/test-app';
-import { startWebhookReceiver, type WebhookReceiver } from '../support/webhook-receiver';
-import { apiOperations, fillPath, loadOpenApi, type Operation } from '../security/support/openapi-operations';
-import { exampleBody, sendTo, unknownIds, type Actor } from '../security/support/operation-requests';
+import { apiOperations, fillPath, loadOpenApi } from '../security/support/openapi-operations';
+import { exampleBody, sendTo, unknownIds } from '../security/support/operation-requests';
 import { otherSpellings } from '../security/support/route-spellings';
-import { createTenantWithResources, fixtureValues, type TenantWithResources } from '../security/support/tenant-fixtures';
+import { fixtureValues, startAppWithResources, type AppWithResources } from '../security/support/tenant-fixtures';
 import { fuzzRuns, fuzzSeed } from './support/fuzz-runs';
 import { expectCleanRefusal } from './support/problem-assertions';
 import { changedTables, rowCounts } from './support/row-counts';
@@ -38,25 +35,12 @@ function bodies(example: Record<string, unknown>): fc.Arbitrary<unknown> {
 }
 
 describe('every JSON body under fuzzing', () => {
-  let t: TestApp;
-  let receiver: WebhookReceiver;
-  let tenant: TenantWithResources;
-  let operator: Actor;
+  let fixture: AppWithResources;
 
   beforeAll(async () => {
-    t = await startTestApp({ RATE_LIMIT_WINDOW_SECONDS: '3600' });
-    receiver = await startWebhookReceiver();
-    tenant = await createTenantWithResources(t, doc, { marker: 'fuzz-operations', receiverUrl: receiver.url });
-    const op = await createUserSession(t.ctx, t.app, { tenantId: tenant.tenantId, role: 'operator' });
-    operator = { kind: 'session', label: 'operator', cookie: op.cookie, csrf: op.csrf, tenantHeader: tenant.tenantId };
+    fixture = await startAppWithResources(doc, 'fuzz-operations');
   });
-  afterAll(async () => {
-    await receiver?.close();
-    await t?.close();
-  });
-
-  const actorFor = (op: Operation): Actor =>
-    !op.secured ? { kind: 'anonymous', label: 'nobody' } : op.permission && ['tenants.operate', 'outbox.read'].includes(op.permission) ? operator : tenant.owner;
+  afterAll(async () => fixture?.close());
 
   it('has JSON-body operations to fuzz', () => {
     expect(ops.length).toBeGreaterThan(15);
@@ -65,6 +49,7 @@ describe('every JSON body under fuzzing', () => {
   for (const [i, op] of ops.entries()) {
     it(`${op.method.toUpperCase()} ${op.path}`, async () => {
       const example = (exampleBody(doc, op)?.body ?? {}) as Record<string, unknown>;
+      const { t, tenant, actorFor } = fixture;
       const url = fillPath(op.path, fixtureValues(op, tenant.fixtures) ?? unknownIds(op));
       const spellings = otherSpellings(url);
       await fc.assert(

@@ -14,12 +14,10 @@ import { changeMemberRole, inviteMember } from '../../api/src/services/members';
 import { updateTenant } from '../../api/src/services/tenants';
 import { createTenantWithKey, createUserSession } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
-import { startWebhookReceiver, type WebhookReceiver } from '../support/webhook-receiver';
-import { apiOperations, loadOpenApi, resolveRef, type Operation } from './support/openapi-operations';
+import { apiOperations, fillPath, loadOpenApi, resolveRef, type Operation } from './support/openapi-operations';
 import { exampleBody, send, sendTo, unknownIds, type Actor } from './support/operation-requests';
-import { fillPath } from './support/openapi-operations';
 import { otherSpellings } from './support/route-spellings';
-import { createTenantWithResources, fixtureValues, type TenantWithResources } from './support/tenant-fixtures';
+import { fixtureValues, startAppWithResources, type AppWithResources, type TenantWithResources } from './support/tenant-fixtures';
 
 const doc = loadOpenApi();
 const jsonBodyOps = apiOperations(doc).filter((o) => o.requestContentTypes.includes('application/json'));
@@ -50,25 +48,18 @@ function documentedProperties(schema: any): Set<string> {
 }
 
 describe('API3 broken object property level authorization', () => {
+  let fixture: AppWithResources;
   let t: TestApp;
-  let receiver: WebhookReceiver;
   let tenant: TenantWithResources;
   let operator: Actor;
 
   beforeAll(async () => {
-    t = await startTestApp({ RATE_LIMIT_WINDOW_SECONDS: '3600' });
-    receiver = await startWebhookReceiver();
-    tenant = await createTenantWithResources(t, doc, { marker: 'api3-marker', receiverUrl: receiver.url });
-    const op = await createUserSession(t.ctx, t.app, { tenantId: tenant.tenantId, role: 'operator' });
-    operator = { kind: 'session', label: 'operator', cookie: op.cookie, csrf: op.csrf, tenantHeader: tenant.tenantId };
+    fixture = await startAppWithResources(doc, 'api3-marker');
+    ({ t, tenant, operator } = fixture);
   });
-  afterAll(async () => {
-    await receiver?.close();
-    await t?.close();
-  });
+  afterAll(async () => fixture?.close());
 
-  const actorFor = (op: Operation): Actor =>
-    !op.secured ? { kind: 'anonymous', label: 'nobody' } : op.permission && ['tenants.operate', 'outbox.read'].includes(op.permission) ? operator : tenant.owner;
+  const actorFor = (op: Operation): Actor => fixture.actorFor(op);
 
   for (const op of jsonBodyOps) {
     const schema = resolveRef(doc, op.raw.requestBody).content['application/json'].schema;

@@ -7,14 +7,12 @@ import express from 'express';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ACTIONS } from '../../api/src/auth/permissions';
-import { createUserSession } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
-import { startWebhookReceiver, type WebhookReceiver } from '../support/webhook-receiver';
 import { listExpressRoutes } from './support/express-routes';
 import { listOperations, fillPath, loadOpenApi, type Operation } from './support/openapi-operations';
 import { exampleBody, sendTo, unknownIds, type Actor } from './support/operation-requests';
 import { otherSpellings } from './support/route-spellings';
-import { createTenantWithResources, fixtureValues, type TenantWithResources } from './support/tenant-fixtures';
+import { fixtureValues, startAppWithResources, type AppWithResources, type TenantWithResources } from './support/tenant-fixtures';
 
 // The console's single-page fallback (mounted only when console/dist is built) serves HTML for any
 // non-API path; it is not part of the HTTP API and refuses /v1 paths (asserted below).
@@ -91,10 +89,9 @@ describe('API9 improper inventory management', () => {
 
 describe('API9 one spelling per route', () => {
   const doc = loadOpenApi();
+  let fixture: AppWithResources;
   let t: TestApp;
-  let receiver: WebhookReceiver;
   let tenant: TenantWithResources;
-  let operator: Actor;
   const planted = '00000000-0000-4000-8000-00000000abcd';
 
   // Every row a handler could write, in a stable order; a request that reached one would show here.
@@ -105,20 +102,13 @@ describe('API9 one spelling per route', () => {
     return snap;
   }
 
-  const actorFor = (op: Operation): Actor =>
-    !op.secured ? { kind: 'anonymous', label: 'nobody' } : op.permission && ['tenants.operate', 'outbox.read'].includes(op.permission) ? operator : tenant.owner;
+  const actorFor = (op: Operation): Actor => fixture.actorFor(op);
 
   beforeAll(async () => {
-    t = await startTestApp({ RATE_LIMIT_WINDOW_SECONDS: '3600' });
-    receiver = await startWebhookReceiver();
-    tenant = await createTenantWithResources(t, doc, { marker: 'api9-spelling', receiverUrl: receiver.url });
-    const op = await createUserSession(t.ctx, t.app, { tenantId: tenant.tenantId, role: 'operator' });
-    operator = { kind: 'session', label: 'operator', cookie: op.cookie, csrf: op.csrf, tenantHeader: tenant.tenantId };
+    fixture = await startAppWithResources(doc, 'api9-spelling');
+    ({ t, tenant } = fixture);
   });
-  afterAll(async () => {
-    await receiver?.close();
-    await t?.close();
-  });
+  afterAll(async () => fixture?.close());
 
   it('makes the app and every router match case-sensitively and strictly', () => {
     expect([t.app.enabled('case sensitive routing'), t.app.enabled('strict routing')]).toEqual([true, true]);
