@@ -131,17 +131,18 @@ export function buildApp(ctx: AppContext): Express {
   });
   app.use(cookieParser());
   app.use(authenticateFirst(ctx, operations));
+  const JSON_TYPES = ['application/json', 'application/*+json'];
   const jsonBody = (limit: number, caller: 'authenticated' | 'public') => ({
     limit,
-    parse: express.json({ limit, type: ['application/json', 'application/*+json'], verify: () => ctx.metrics.bodiesParsed.inc({ caller }) }),
+    parse: express.json({ limit, type: JSON_TYPES, verify: () => ctx.metrics.bodiesParsed.inc({ caller }) }),
   });
   const authenticatedBody = jsonBody(ctx.config.bodyLimitBytes, 'authenticated');
   const publicBody = jsonBody(PUBLIC_BODY_LIMIT_BYTES, 'public');
   app.use((req, res, next) => {
     const body = req.principal ? authenticatedBody : publicBody;
-    // Refused on its declared length, before a byte is read: the parser would drain the whole body first.
+    // A JSON body is refused on its declared length, before a byte is read: the parser would drain it all first.
     const declared = Number(req.get('content-length') ?? 0);
-    if (declared > body.limit) {
+    if (declared > body.limit && req.is(JSON_TYPES)) {
       closeIfBodyUnread(req, res);
       throw new HttpProblem({
         status: 413,
