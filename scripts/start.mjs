@@ -1,30 +1,36 @@
-// `npm start`: install what is missing, start PostgreSQL on loopback, then API + console + worker.
+// `npm start`: install what is missing, start PostgreSQL on loopback, then API + console + worker in
+// one app process, started again with a growing delay whenever it dies (PostgreSQL stays up).
+// Ctrl-C (or SIGTERM) stops the app, then PostgreSQL, then exits.
 import { spawn } from 'node:child_process';
 import { buildConsole, consoleBuilt, dataRoot, ensureNodeModules, log, root } from './lib/setup.mjs';
 import { localDatabase } from './lib/local-cluster.mjs';
+import { supervise } from './lib/supervise.mjs';
 
 ensureNodeModules();
 const db = await localDatabase();
 if (!consoleBuilt()) buildConsole();
 
-const child = spawn(process.execPath, ['--import', 'tsx', 'api/src/main.ts'], {
-  cwd: root,
-  stdio: 'inherit',
-  env: { ...process.env, DATABASE_URL: db.url, GRIDWRIGHT_DATA: dataRoot() },
+const app = supervise({
+  log,
+  start: () =>
+    spawn(process.execPath, ['--import', 'tsx', 'api/src/main.ts'], {
+      cwd: root,
+      stdio: 'inherit',
+      env: { ...process.env, DATABASE_URL: db.url, GRIDWRIGHT_DATA: dataRoot() },
+    }),
 });
 
 let stopping = false;
-function shutdown(signal) {
+async function shutdown(signal) {
   if (stopping) return;
   stopping = true;
   log(`${signal}: stopping…`);
-  child.kill('SIGTERM');
+  await app.stop();
 }
 process.on('SIGINT', () => shutdown('SIGINT'));
 process.on('SIGTERM', () => shutdown('SIGTERM'));
 
-child.on('exit', (code, signal) => {
-  db.stop();
-  if (db.startedHere) log('PostgreSQL stopped.');
-  process.exit(code ?? (signal ? 0 : 1));
-});
+const ended = await app.done;
+db.stop();
+if (db.startedHere) log('PostgreSQL stopped.');
+process.exit(stopping ? 0 : (ended.code ?? 1));

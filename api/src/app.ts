@@ -9,10 +9,14 @@ import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import swaggerUi from 'swagger-ui-express';
 import { parse as parseYaml } from 'yaml';
+import { authenticateFirst } from './auth/authenticate-first';
+import { metricsAccess } from './auth/metrics-access';
 import type { AppContext } from './context';
 import { databaseReadiness } from './db/data-source';
+import { closeIfBodyUnread, documentedOperations } from './lib/documented-operations';
 import { errorHandler, notFoundHandler } from './lib/error-handler';
-import { problemType } from './lib/problem';
+import { HttpProblem, problemType } from './lib/problem';
+import { STRICT_ROUTING } from './lib/strict-router';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
 import { auditRouter } from './routes/audit';
@@ -31,6 +35,15 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 export const openapiPath = path.resolve(here, '../../openapi/openapi.yaml');
 const consoleDist = path.resolve(here, '../../console/dist');
 
+/**
+ * Routes anyone may call (sign-in, password reset, invitations) take small bodies; BODY_LIMIT
+ * applies once the caller is authenticated.
+ */
+export const PUBLIC_BODY_LIMIT_BYTES = 64 * 1024;
+
+/** Every spelling of the API's prefix, so none slips past the contract: `/v1`, `/V1/…`. */
+export const isApiPath = (p: string) => /^\/v1(?:\/|$)/i.test(p);
+
 /** Builds the Express app without listening: what server.ts and the tests use. */
 export function buildApp(ctx: AppContext): Express {
   const app = express();
@@ -44,6 +57,8 @@ export function buildApp(ctx: AppContext): Express {
   validatorDoc.components.schemas.SiteSpec = {};
 
   app.disable('x-powered-by');
+  app.set('case sensitive routing', STRICT_ROUTING.caseSensitive);
+  app.set('strict routing', STRICT_ROUTING.strict);
   app.set('trust proxy', ctx.config.trustProxy);
   app.set('query parser', 'extended');
 
@@ -98,7 +113,7 @@ export function buildApp(ctx: AppContext): Express {
       .setHeader('Retry-After', '5')
       .send(JSON.stringify({ type: problemType('not-ready'), title: 'Not ready', status: 503, detail: ready.reason }));
   });
-  app.get('/metrics', async (_req, res) => {
+  app.get('/metrics', metricsAccess(ctx.config), async (_req, res) => {
     res.type(ctx.metrics.registry.contentType).send(await ctx.metrics.registry.metrics());
   });
   app.get('/openapi.yaml', (_req, res) => {
@@ -106,8 +121,38 @@ export function buildApp(ctx: AppContext): Express {
   });
   app.use('/docs', swaggerUi.serve, swaggerUi.setup(openapiDoc, { customSiteTitle: 'Gridwright API' }));
 
-  app.use(express.json({ limit: ctx.config.bodyLimit, type: ['application/json', 'application/*+json'] }));
+  // Another spelling of a documented path (`/V1/…`, a trailing slash) is refused before anything
+  // else looks at it, so it can never meet a handler the contract did not describe.
+  const operations = documentedOperations(openapiDoc);
+  app.use((req, res, next) => {
+    if (!isApiPath(req.path) || operations.isDocumentedPath(req.path)) return next();
+    closeIfBodyUnread(req, res);
+    notFoundHandler(req, res, next);
+  });
   app.use(cookieParser());
+  app.use(authenticateFirst(ctx, operations));
+  const JSON_TYPES = ['application/json', 'application/*+json'];
+  const jsonBody = (limit: number, caller: 'authenticated' | 'public') => ({
+    limit,
+    parse: express.json({ limit, type: JSON_TYPES, verify: () => ctx.metrics.bodiesParsed.inc({ caller }) }),
+  });
+  const authenticatedBody = jsonBody(ctx.config.bodyLimitBytes, 'authenticated');
+  const publicBody = jsonBody(PUBLIC_BODY_LIMIT_BYTES, 'public');
+  app.use((req, res, next) => {
+    const body = req.principal ? authenticatedBody : publicBody;
+    // A JSON body is refused on its declared length, before a byte is read: the parser would drain it all first.
+    const declared = Number(req.get('content-length') ?? 0);
+    if (declared > body.limit && req.is(JSON_TYPES)) {
+      closeIfBodyUnread(req, res);
+      throw new HttpProblem({
+        status: 413,
+        slug: 'payload-too-large',
+        title: 'Request body too large',
+        detail: `The body is ${declared} bytes; the limit is ${body.limit} bytes.`,
+      });
+    }
+    body.parse(req, res, next);
+  });
   app.use(
     OpenApiValidator.middleware({
       apiSpec: validatorDoc,
@@ -115,7 +160,7 @@ export function buildApp(ctx: AppContext): Express {
       validateResponses: false,
       validateSecurity: false,
       fileUploader: false,
-      ignorePaths: (p: string) => !p.startsWith('/v1'),
+      ignorePaths: (p: string) => !isApiPath(p),
     }),
   );
 
@@ -137,7 +182,7 @@ export function buildApp(ctx: AppContext): Express {
   if (existsSync(path.join(consoleDist, 'index.html'))) {
     app.use(express.static(consoleDist, { index: false, maxAge: '1h' }));
     app.get('/{*splat}', (req, res, next) => {
-      if (req.path.startsWith('/v1') || !req.accepts('html')) return next();
+      if (isApiPath(req.path) || !req.accepts('html')) return next();
       res.sendFile(path.join(consoleDist, 'index.html'));
     });
   }

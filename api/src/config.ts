@@ -23,6 +23,15 @@ function decimalNumber(opts: { min: number } | { above: number }) {
     .transform(Number);
 }
 
+const BYTE_SIZE = /^(\d+(?:\.\d+)?)\s*(b|kb|mb|gb)?$/i;
+const BYTE_UNITS: Record<string, number> = { b: 1, kb: 1024, mb: 1024 ** 2, gb: 1024 ** 3 };
+
+/** `8mb` → 8 388 608: units of 1024, as body-parser reads them. */
+function byteSize(text: string): number {
+  const [, amount, unit] = BYTE_SIZE.exec(text.trim())!;
+  return Math.floor(Number(amount) * BYTE_UNITS[(unit ?? 'b').toLowerCase()]!);
+}
+
 const flag = z.enum(['true', 'false'], { error: 'must be true or false' }).transform((value) => value === 'true');
 
 /**
@@ -42,9 +51,10 @@ export const environmentSchema = z
     LOG_LEVEL: z.enum(LOG_LEVELS, { error: `must be one of ${LOG_LEVELS.join(', ')}` }).optional(),
     BODY_LIMIT: z
       .string()
-      .regex(/^\d+(\.\d+)?\s*(b|kb|mb|gb)?$/i, 'must be a size in bytes, or with a unit: 64kb, 8mb')
+      .regex(BYTE_SIZE, 'must be a size in bytes, or with a unit: 64kb, 8mb')
       .default('8mb'),
     JWT_SECRET: z.string().optional(),
+    METRICS_TOKEN: z.string().min(16, 'must be at least 16 characters').optional(),
     SESSION_MINUTES: wholeNumber(1).default(60),
     COOKIE_SECURE: flag.optional(),
     TRUST_PROXY: flag.default(false),
@@ -59,6 +69,7 @@ export const environmentSchema = z
     SIGNIN_LOCK_MINUTES: wholeNumber(1).default(15),
     INVITATION_HOURS: decimalNumber({ above: 0 }).default(72),
     PASSWORD_RESET_MINUTES: decimalNumber({ above: 0 }).default(60),
+    PASSWORD_RESET_EMAILS_PER_HOUR: wholeNumber(1).default(3),
     RATE_LIMIT_WINDOW_SECONDS: wholeNumber(1).default(10),
     WORKER_CONCURRENCY: wholeNumber(1).default(1),
     SOLVER_THREADS: wholeNumber(1).optional(),
@@ -117,8 +128,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     publicUrl: (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
     dataDir,
     logLevel: e.LOG_LEVEL ?? (test ? 'silent' : 'info'),
-    bodyLimit: e.BODY_LIMIT,
+    /** Bytes of JSON body an authenticated caller may send. */
+    bodyLimitBytes: byteSize(e.BODY_LIMIT),
     jwtSecret: e.JWT_SECRET ?? localSecret(dataDir),
+    /** Bearer token /metrics asks for; null: only loopback clients are answered. */
+    metricsToken: e.METRICS_TOKEN ?? null,
     sessionMinutes: e.SESSION_MINUTES,
     cookieSecure: e.COOKIE_SECURE ?? production,
     trustProxy: e.TRUST_PROXY,
@@ -139,6 +153,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     signInLockMinutes: e.SIGNIN_LOCK_MINUTES,
     invitationHours: e.INVITATION_HOURS,
     passwordResetMinutes: e.PASSWORD_RESET_MINUTES,
+    /** Reset e-mails one address receives per hour at most; one client address may ask ten times as often. */
+    passwordResetEmailsPerHour: e.PASSWORD_RESET_EMAILS_PER_HOUR,
     bcryptRounds: e.BCRYPT_ROUNDS ?? (test ? 4 : 12),
     defaultPlan: e.DEFAULT_PLAN,
     /** How far past its time limit a run may go: its worker stops it after half of this, pg-boss gives up its job after all of it. */

@@ -9,7 +9,7 @@ import { z } from 'zod';
 import { buildPointer, parsePointer } from './json-pointer';
 
 export const MAX_STEPS = 35_136;
-const MAX_UNITS = 50;
+export const MAX_UNITS = 50;
 const MAX_STORAGE = 20;
 const MAX_STORES = 20;
 const MAX_CURVE_SLICES = 20;
@@ -25,8 +25,8 @@ const MAX_REPORTED_ERRORS = 100;
  * between these bounds. A 1e-250 kW rating or a 1e300 kW supply is finite, but no double-precision
  * solver can tell it from 0 or infinity next to ordinary figures, so the spec is refused instead.
  */
-const MIN_POWER = 1e-6;
-const MAX_POWER = 1e9;
+export const MIN_POWER = 1e-6;
+export const MAX_POWER = 1e9;
 const MIN_PRICE = 1e-9;
 const MAX_PRICE = 1e6;
 

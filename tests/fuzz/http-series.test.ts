@@ -1,9 +1,10 @@
 // POST /v1/series under fuzzing: random and mangled CSV files, broken multipart framing, wrong
 // content types and odd query options. Never a 5xx; refusals are problem+json; nothing is stored
-// when the upload is refused.
+// when the upload is refused; and a stored series holds only values a site spec could hold inline.
 import fc from 'fast-check';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { kwValueRefusal } from '../../api/src/lib/kw-values';
 import { createTenantWithKey } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
 import { fuzzRuns, fuzzSeed } from './support/fuzz-runs';
@@ -69,6 +70,30 @@ describe('POST /v1/series under fuzzing', () => {
         if (res.status >= 400) expect(changedTables(before, await rowCounts(t.ctx.db), BOOKKEEPING)).toEqual([]);
       }),
       { numRuns: fuzzRuns(60), seed: fuzzSeed(7301) },
+    );
+  });
+
+  it('stores a series only when every value is one a spec may hold, and names the row and column otherwise', async () => {
+    const magnitude = fc.oneof(
+      fc.double({ min: 0, max: 1e308, noNaN: true }),
+      fc.constantFrom(0, 1e-12, 5e-7, 1e-6, 1e9, 1e9 + 1, 1e203, 1.8e302, 1.7e308),
+      fc.double({ min: 0, max: 1e4, noNaN: true }),
+    );
+    const upload = fc.tuple(fc.constantFrom('W', 'kW', 'MW'), fc.array(magnitude, { minLength: 2, maxLength: 6 }));
+    await fc.assert(
+      fc.asyncProperty(upload, async ([unit, values]) => {
+        const csv = `timestamp,pv [${unit}]\n${values.map((v, i) => `2027-03-01T${String(i).padStart(2, '0')}:00:00Z,${v}`).join('\n')}\n`;
+        const res = await request(t.app).post('/v1/series').set('Authorization', `Bearer ${apiKey}`).attach('file', Buffer.from(csv), { filename: 'm.csv', contentType: 'text/csv' });
+        expectCleanRefusal(res, csv);
+        if (res.status === 201) {
+          const [stored] = await t.ctx.db.query(`SELECT values_kw FROM series WHERE id = $1`, [res.body.items[0].id]);
+          expect(stored.values_kw.filter((kw: number) => kwValueRefusal(kw) !== null), csv).toEqual([]);
+        } else {
+          expect(res.status, csv).toBe(400);
+          expect(res.body.errors[0].message, csv).toMatch(/^row \d+: column "pv \[\w+\]"/);
+        }
+      }),
+      { numRuns: fuzzRuns(40), seed: fuzzSeed(7303) },
     );
   });
 

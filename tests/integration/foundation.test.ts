@@ -5,6 +5,8 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { inject } from 'vitest';
 import { startCluster, type Cluster } from '../../scripts/lib/postgres.mjs';
+import { PUBLIC_BODY_LIMIT_BYTES } from '../../api/src/app';
+import { createTenantWithKey } from '../support/tenants';
 import { startTestApp, type TestApp } from '../support/test-app';
 
 function expectProblem(res: request.Response, status: number) {
@@ -16,8 +18,10 @@ function expectProblem(res: request.Response, status: number) {
 
 describe('the HTTP spine', () => {
   let t: TestApp;
+  let apiKey: string;
   beforeAll(async () => {
     t = await startTestApp();
+    ({ apiKey } = await createTenantWithKey(t.ctx));
   });
   afterAll(async () => t.close());
 
@@ -38,12 +42,17 @@ describe('the HTTP spine', () => {
 
   it('refuses a body over the size limit with 413', async () => {
     const huge = JSON.stringify({ blob: 'x'.repeat(9 * 1024 * 1024) });
-    const res = await request(t.app).post('/v1/runs').set('Content-Type', 'application/json').send(huge);
+    const res = await request(t.app).post('/v1/runs').set('Authorization', `Bearer ${apiKey}`).set('Content-Type', 'application/json').send(huge);
+    expectProblem(res, 413);
+  });
+
+  it(`refuses a body over ${PUBLIC_BODY_LIMIT_BYTES} bytes on a public route with 413`, async () => {
+    const res = await request(t.app).post('/v1/auth/sign-in').set('Content-Type', 'application/json').send(JSON.stringify({ email: 'a@example.test', password: 'x'.repeat(70 * 1024) }));
     expectProblem(res, 413);
   });
 
   it('refuses malformed JSON with 400 naming the body', async () => {
-    const res = await request(t.app).post('/v1/runs').set('Content-Type', 'application/json').send('{"horizon": ');
+    const res = await request(t.app).post('/v1/runs').set('Authorization', `Bearer ${apiKey}`).set('Content-Type', 'application/json').send('{"horizon": ');
     expectProblem(res, 400);
     expect(res.body.errors[0].pointer).toBe('');
   });

@@ -1,6 +1,9 @@
 // OWASP API Security Top 10 (2023), API4 Unrestricted Resource Consumption: body and upload size
 // limits, the plan's step and unit caps, the solver time-limit ceiling, per-key rate limits with
-// the IETF RateLimit fields and Retry-After, and the monthly run quota.
+// the IETF RateLimit fields and Retry-After, the monthly run quota — and no body read or parsed for
+// a caller that is not authenticated on a route that needs it.
+import type { Server } from 'node:http';
+import net, { type AddressInfo } from 'node:net';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { MAX_TIME_LIMIT_SECONDS } from '../../shared/src/site-spec';
@@ -104,5 +107,94 @@ describe('API4 unrestricted resource consumption', () => {
     expect(n).toBe(2);
     // Validation is free: it neither needs nor uses quota.
     expect((await request(t.app).post('/v1/specs/validate').set('Authorization', `Bearer ${apiKey}`).send(spec(4))).status).toBe(200);
+  });
+});
+
+/**
+ * Sends a request over a raw socket: the head, then (unless `bodyBytes` is 0) that many body bytes
+ * in the background. Resolves with the response head as soon as it arrives, whatever happened to
+ * the body: a server that refuses before reading it may close the connection under the writer.
+ */
+function rawRequest(port: number, head: string, bodyBytes: number): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const socket = net.connect(port, '127.0.0.1');
+    let received = '';
+    socket.on('error', (err) => (received.includes('\r\n\r\n') ? resolve(received) : reject(err)));
+    socket.on('data', (chunk) => {
+      received += chunk.toString('latin1');
+      if (received.includes('\r\n\r\n')) {
+        socket.destroy();
+        resolve(received.slice(0, received.indexOf('\r\n\r\n')));
+      }
+    });
+    socket.write(head);
+    if (bodyBytes > 0) {
+      const chunk = Buffer.alloc(64 * 1024, 'a');
+      let left = bodyBytes;
+      const pump = () => {
+        while (left > 0 && !socket.destroyed) {
+          const n = Math.min(left, chunk.length);
+          left -= n;
+          if (!socket.write(chunk.subarray(0, n))) return socket.once('drain', pump);
+        }
+      };
+      pump();
+    }
+  });
+}
+
+describe('API4 authentication comes before the body', () => {
+  const BODY = 7_800_000;
+  let t: TestApp;
+  let server: Server;
+  let port: number;
+  const parsed = async (caller: 'authenticated' | 'public') => (await t.ctx.metrics.bodiesParsed.get()).values.find((v) => v.labels.caller === caller)?.value ?? 0;
+  beforeAll(async () => {
+    t = await startTestApp();
+    server = await new Promise<Server>((resolve) => {
+      const s = t.app.listen(0, '127.0.0.1', () => resolve(s));
+    });
+    port = (server.address() as AddressInfo).port;
+  });
+  afterAll(async () => {
+    server?.closeAllConnections();
+    await new Promise((r) => server?.close(r));
+    await t?.close();
+  });
+
+  const head = (path: string, headers: Record<string, string> = {}) =>
+    [`POST ${path} HTTP/1.1`, 'Host: 127.0.0.1', 'Content-Type: application/json', `Content-Length: ${BODY}`, ...Object.entries(headers).map(([k, v]) => `${k}: ${v}`), '', ''].join('\r\n');
+
+  it('answers 401 to an unauthenticated request from its headers alone, never waiting for the body', async () => {
+    // Not one body byte is sent: a server that read the body before authenticating would never answer.
+    for (const path of ['/v1/runs', '/v1/specs/validate', '/v1/webhook-endpoints', '/v1/admin/tenants']) {
+      const answer = await rawRequest(port, head(path), 0);
+      expect(answer, path).toMatch(/^HTTP\/1\.1 401 /);
+      expect(answer.toLowerCase(), path).toContain('connection: close');
+    }
+    const badKey = await rawRequest(port, head('/v1/runs', { Authorization: 'Bearer gw_000000000000_' + 'a'.repeat(43) }), 0);
+    expect(badKey).toMatch(/^HTTP\/1\.1 401 /);
+  });
+
+  it('parses none of ten large unauthenticated bodies sent at once', async () => {
+    const before = await parsed('authenticated');
+    const answers = await Promise.all(Array.from({ length: 10 }, () => rawRequest(port, head('/v1/runs'), BODY)));
+    for (const answer of answers) expect(answer).toMatch(/^HTTP\/1\.1 401 /);
+    expect(await parsed('authenticated')).toBe(before);
+    expect(await parsed('public')).toBe(0);
+  });
+
+  it('reads and parses the body of an authenticated caller (the counter counts)', async () => {
+    const { apiKey } = await createTenantWithKey(t.ctx);
+    const before = await parsed('authenticated');
+    const res = await request(server).post('/v1/specs/validate').set('Authorization', `Bearer ${apiKey}`).send({ horizon: {} });
+    expect([200, 400], res.text).toContain(res.status);
+    expect(await parsed('authenticated')).toBe(before + 1);
+  });
+
+  it('gives the public routes a small body limit: a large sign-in body is a 413, not parsed', async () => {
+    const answer = await rawRequest(port, head('/v1/auth/sign-in'), 0);
+    expect(answer).toMatch(/^HTTP\/1\.1 413 /);
+    expect(await parsed('public')).toBe(0);
   });
 });

@@ -8,6 +8,7 @@ import { childEnv, createSoakTenant, migrate, newPool } from './lib/harness';
 import { renderResults, writeResults, type ResultRow } from './lib/results';
 import { smallSiteSpec } from './lib/specs';
 import { databaseOutageScenario } from './scenarios/database-outage';
+import { hardeningScenario } from './scenarios/hardening';
 import { loadScenario } from './scenarios/load';
 import { manySolvesScenario } from './scenarios/many-solves';
 import { solverFaultScenario } from './scenarios/solver-fault';
@@ -55,6 +56,7 @@ await scenario('throughput', 20 * 60_000, async () =>
 await scenario('crash', 30 * 60_000, async () => workerCrashScenario({ ctx, pool, databaseUrl: DATABASE_URL, tenant: await tenant('crash'), runs: num(process.env.SOAK_RUNS, 100), kills: 3 }));
 await scenario('outage', 10 * 60_000, async () => databaseOutageScenario({ pool, databaseUrl: DATABASE_URL, pgBin: GW_PG_BIN, pgDir: GW_PG_DIR, tenant: await tenant('outage'), outageSeconds: 10 }));
 await scenario('solver-fault', 10 * 60_000, async () => solverFaultScenario({ pool, databaseUrl: DATABASE_URL, tenant: await tenant('fault') }));
+await scenario('hardening', 15 * 60_000, async () => hardeningScenario({ ctx, databaseUrl: DATABASE_URL, tenant: await tenant('hardening') }));
 await scenario('solves', 60 * 60_000, async () => manySolvesScenario(num(process.env.SOAK_SOLVES, 5000)));
 
 const seconds = (Date.now() - startedAt.getTime()) / 1000;

@@ -89,6 +89,8 @@ async function fromSession(ctx: AppContext, req: Request, token: string): Promis
 /** Bearer API key, or the session cookie (with the CSRF check on unsafe methods). Sets `req.principal`. */
 export function authenticate(ctx: AppContext): RequestHandler {
   return async (req, res, next) => {
+    // Already established before the body was read (authenticate-first.ts): once per request.
+    if (req.principal) return next();
     const header = req.get('authorization');
     const cookie: unknown = req.cookies?.[SESSION_COOKIE];
     let established: { principal: Principal; rps: number | null };

@@ -59,6 +59,7 @@ async function run(ctx: AppContext, argv: string[]) {
       if (values.invite) {
         if (!tenant || role === 'operator') fail('--invite is for tenant members');
         const { link } = await inviteMember(ctx, { tenantId: tenant.id, email, role, invitedBy: null }, OPERATOR);
+        if (!link) fail(`${email} already has an account (an address belongs to one tenant); it was e-mailed a note, no link`);
         out(`invitation e-mailed to ${email}; link (single use):`);
         out(link);
         return;

@@ -24,6 +24,7 @@ import { Webhooks1780000310000 } from './migrations/1780000310000-webhooks';
 import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-profiles';
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
 import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues';
+import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -35,5 +36,7 @@ export const entities: Constructor[] = [
 export const migrations: Constructor[] = [
   Accounts1780000000000,
   Runs1780000100000, QueueSchema1780000110000, Series1780000300000, Webhooks1780000310000, ExportProfiles1780000320000,
-  RunStatusCheck1780000400000, FairQueues1780000600000,
+  RunStatusCheck1780000400000,
+  InputGuards1780000500000,
+  FairQueues1780000600000,
 ];

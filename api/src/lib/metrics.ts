@@ -13,6 +13,12 @@ export function createMetrics() {
       buckets: [0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5, 5],
       registers: [registry],
     }),
+    bodiesParsed: new Counter({
+      name: 'gridwright_http_bodies_parsed_total',
+      help: 'JSON request bodies read and parsed, by whether the caller was authenticated first',
+      labelNames: ['caller'] as const,
+      registers: [registry],
+    }),
     solves: new Counter({
       name: 'gridwright_solves_total',
       help: 'Solver runs by outcome',

@@ -1,12 +1,13 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import { auditActorOf, auditEventView, listAuditEvents } from '../services/audit';
 import { createTenantWithOwner, getTenantOr404, listTenants, setTenantSuspended, tenantView, updateTenant } from '../services/tenants';
 import { usageReport } from '../services/usage';
 
 export function adminTenantsRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
   const operate = authorize('tenants.operate');
 
@@ -26,7 +27,8 @@ export function adminTenantsRouter(ctx: AppContext): Router {
   });
 
   r.patch('/v1/admin/tenants/:id', auth, operate, async (req, res) => {
-    const tenant = await updateTenant(ctx, req.params.id as string, req.body, await auditActorOf(ctx, req.principal));
+    const { name, planId, limitOverrides } = req.body;
+    const tenant = await updateTenant(ctx, req.params.id as string, { name, planId, limitOverrides }, await auditActorOf(ctx, req.principal));
     res.json(await tenantView(ctx.db.manager, tenant));
   });
 

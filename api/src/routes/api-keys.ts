@@ -1,11 +1,13 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { optionalInstant } from '../lib/instants';
+import { strictRouter } from '../lib/strict-router';
 import { auditActorOf } from '../services/audit';
 import { apiKeyView, createApiKey, getApiKey, listApiKeys, revokeApiKey } from '../services/api-keys';
 
 export function apiKeysRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.get('/v1/api-keys', auth, authorize('keys.read'), async (req, res) => {
@@ -24,7 +26,7 @@ export function apiKeysRouter(ctx: AppContext): Router {
         tenantId: req.principal!.tenantId,
         name: req.body.name,
         scopes: req.body.scopes,
-        expiresAt: req.body.expiresAt ? new Date(req.body.expiresAt) : null,
+        expiresAt: optionalInstant(req.body.expiresAt, '/expiresAt') ?? null,
         createdBy: req.principal!.userId ?? null,
       },
       await auditActorOf(ctx, req.principal),

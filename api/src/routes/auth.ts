@@ -1,6 +1,7 @@
-import { Router, type Request, type Response } from 'express';
+import type { Request, Response, Router } from 'express';
 import { authenticate, authorize, unauthenticated } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import { changePassword, signedInAccount, signOut, type ClientInfo } from '../services/account';
 import { acceptInvitation } from '../services/members';
 import { completePasswordReset, requestPasswordReset } from '../services/password-reset';
@@ -23,7 +24,7 @@ function clearSessionCookies(ctx: AppContext, res: Response) {
 const clientOf = (req: Request): ClientInfo => ({ ip: req.ip ?? null, userAgent: req.get('user-agent') ?? null });
 
 export function authRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.post('/v1/auth/sign-in', async (req, res) => {
@@ -53,7 +54,7 @@ export function authRouter(ctx: AppContext): Router {
 
   r.post('/v1/auth/password-reset', async (req, res) => {
     // Answered before any lookup so neither the body nor the timing says whether the address has an account.
-    requestPasswordReset(ctx, req.body.email).catch((err) => ctx.log.error({ err }, 'password reset e-mail failed'));
+    requestPasswordReset(ctx, { email: String(req.body.email), ip: req.ip ?? null }).catch((err) => ctx.log.error({ err }, 'password reset e-mail failed'));
     res.status(202).json({ status: 'accepted', detail: 'If an account uses this address, a reset link is on its way.' });
   });
 

@@ -1,6 +1,7 @@
-import { Router, type Request, type Response } from 'express';
+import type { Request, Response, Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import { auditActorOf } from '../services/audit';
 import {
   changeMemberRole,
@@ -14,7 +15,7 @@ import {
 } from '../services/members';
 
 export function membersRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.get('/v1/members', auth, authorize('members.read'), async (req, res) => {

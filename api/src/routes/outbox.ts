@@ -1,10 +1,11 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
-import { getOutboxMessage, listOutbox, outboxMessageView } from '../services/outbox';
+import { strictRouter } from '../lib/strict-router';
+import { getOutboxMessage, listOutbox, outboxMessageDetail, outboxMessageView } from '../services/outbox';
 
 export function outboxRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.get('/v1/admin/outbox', auth, authorize('outbox.read'), async (req, res) => {
@@ -19,8 +20,7 @@ export function outboxRouter(ctx: AppContext): Router {
   });
 
   r.get('/v1/admin/outbox/:id', auth, authorize('outbox.read'), async (req, res) => {
-    const m = await getOutboxMessage(ctx, req.params.id as string);
-    res.json({ ...outboxMessageView(m), raw: m.raw });
+    res.json(outboxMessageDetail(await getOutboxMessage(ctx, req.params.id as string)));
   });
 
   return r;

@@ -1,9 +1,11 @@
-import { Router, type Request } from 'express';
+import type { Request, Router } from 'express';
 import type { RunStatus } from '@gridwright/shared/run-result';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import { cancelRun } from '../runs/cancellation';
 import { delimiterNamed } from '../lib/csv-delimiters';
+import { optionalInstant } from '../lib/instants';
 import { getRun, listRunDeliveries, listRuns } from '../runs/reading';
 import { getRunSchedule, scheduleCsvFor, type ScheduleCsvChoices } from '../runs/schedule-export';
 import { submitRun } from '../runs/submission';
@@ -33,7 +35,7 @@ function csvChoices(req: Request): ScheduleCsvChoices {
 }
 
 export function runsRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.post('/v1/runs', auth, authorize('runs.create'), async (req, res) => {
@@ -52,8 +54,8 @@ export function runsRouter(ctx: AppContext): Router {
       limit,
       cursor: q.cursor,
       status,
-      createdAfter: q.createdAfter,
-      createdBefore: q.createdBefore,
+      createdAfter: optionalInstant(q.createdAfter, '/query/createdAfter'),
+      createdBefore: optionalInstant(q.createdBefore, '/query/createdBefore'),
     });
     if (nextCursor) {
       const next = queryString({ limit, status: q.status, createdAfter: q.createdAfter, createdBefore: q.createdBefore, cursor: nextCursor });

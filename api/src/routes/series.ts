@@ -1,7 +1,8 @@
-import { Router, type RequestHandler } from 'express';
+import type { RequestHandler, Router } from 'express';
 import multer from 'multer';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import { delimiterNamed } from '../lib/csv-delimiters';
 import { HttpProblem, validationProblem } from '../lib/problem';
 import { getSeries, listSeries, seriesDetail, seriesSummary, uploadSeries } from '../services/series';
@@ -37,7 +38,7 @@ function singleCsvFile(ctx: AppContext): RequestHandler {
 }
 
 export function seriesRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.post('/v1/series', auth, authorize('series.create'), singleCsvFile(ctx), async (req, res) => {

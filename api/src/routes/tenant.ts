@@ -1,11 +1,12 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import { auditActorOf } from '../services/audit';
 import { getTenantOr404, listPlans, planView, tenantView, updateTenant } from '../services/tenants';
 
 export function tenantRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
 
   r.get('/v1/plans', auth, authorize('tenant.read'), async (_req, res) => {

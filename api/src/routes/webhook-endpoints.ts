@@ -1,6 +1,7 @@
-import { Router } from 'express';
+import type { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import { strictRouter } from '../lib/strict-router';
 import {
   createEndpoint,
   deleteEndpoint,
@@ -15,7 +16,7 @@ import {
 } from '../services/webhooks';
 
 export function webhookEndpointsRouter(ctx: AppContext): Router {
-  const r = Router();
+  const r = strictRouter();
   const auth = authenticate(ctx);
   const tenant = (req: { principal?: { tenantId: string } }) => req.principal!.tenantId;
 
@@ -25,7 +26,8 @@ export function webhookEndpointsRouter(ctx: AppContext): Router {
 
   // The signing secret is in this answer and the rotation's, and never again.
   r.post('/v1/webhook-endpoints', auth, authorize('webhooks.manage'), async (req, res) => {
-    const { endpoint, secret } = await createEndpoint(ctx, tenant(req), req.body);
+    const { url, events, description } = req.body;
+    const { endpoint, secret } = await createEndpoint(ctx, tenant(req), { url, events, description });
     res.status(201).location(`/v1/webhook-endpoints/${endpoint.id}`).json({ ...endpointView(endpoint), secret });
   });
 
@@ -34,7 +36,8 @@ export function webhookEndpointsRouter(ctx: AppContext): Router {
   });
 
   r.patch('/v1/webhook-endpoints/:endpointId', auth, authorize('webhooks.manage'), async (req, res) => {
-    res.json(endpointView(await updateEndpoint(ctx, tenant(req), String(req.params.endpointId), req.body)));
+    const { url, events, description, enabled } = req.body;
+    res.json(endpointView(await updateEndpoint(ctx, tenant(req), String(req.params.endpointId), { url, events, description, enabled })));
   });
 
   r.delete('/v1/webhook-endpoints/:endpointId', auth, authorize('webhooks.manage'), async (req, res) => {

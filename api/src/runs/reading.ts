@@ -17,8 +17,8 @@ export interface RunListQuery {
   limit: number;
   cursor?: string;
   status?: RunStatus[];
-  createdAfter?: string;
-  createdBefore?: string;
+  createdAfter?: Date;
+  createdBefore?: Date;
 }
 
 /** Newest first; keyset pagination on (created_at, id) so pages stay stable while runs arrive. */

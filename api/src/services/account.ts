@@ -40,7 +40,7 @@ export async function changePassword(
   client: ClientInfo,
 ) {
   const { user } = await signedInAccount(ctx, principal);
-  if (!(await verifyPassword(input.currentPassword, user.passwordHash))) {
+  if (!(await verifyPassword(ctx.config, input.currentPassword, user.passwordHash))) {
     throw new HttpProblem({
       status: 400,
       slug: 'wrong-password',

@@ -4,7 +4,7 @@ import type { AppContext } from '../context';
 import { ApiKey } from '../db/entities/api-key';
 import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
-import type { Scope } from '../lib/roles-and-scopes';
+import { SCOPES, type Scope } from '../lib/roles-and-scopes';
 import { safeEqual, sha256Hex } from '../lib/secret-tokens';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
@@ -20,11 +20,20 @@ export function parseApiKey(raw: string): { prefix: string } | null {
   return m ? { prefix: m[1]! } : null;
 }
 
+/** The scopes a key may carry: at least one, each of SCOPES (the database refuses any other). */
+function checkedScopes(scopes: unknown): Scope[] {
+  if (!Array.isArray(scopes) || scopes.length === 0) throw validationProblem([{ pointer: '/scopes', message: `at least one of ${SCOPES.join(', ')}` }]);
+  const unknown = scopes.findIndex((s) => !SCOPES.includes(s));
+  if (unknown >= 0) throw validationProblem([{ pointer: `/scopes/${unknown}`, message: `one of ${SCOPES.join(', ')}` }]);
+  return [...new Set(scopes as Scope[])];
+}
+
 export async function createApiKey(
   ctx: AppContext,
   input: { tenantId: string; name: string; scopes: Scope[]; expiresAt?: Date | null; createdBy?: string | null },
   actor: AuditActor,
 ): Promise<{ key: string; apiKey: ApiKey }> {
+  const scopes = checkedScopes(input.scopes);
   if (input.expiresAt && input.expiresAt.getTime() <= Date.now()) {
     throw validationProblem([{ pointer: '/expiresAt', message: 'must be in the future' }]);
   }
@@ -36,7 +45,7 @@ export async function createApiKey(
       name: input.name,
       prefix,
       secretHash: sha256Hex(key),
-      scopes: [...new Set(input.scopes)],
+      scopes,
       expiresAt: input.expiresAt ?? null,
       revokedAt: null,
       lastUsedAt: null,

@@ -63,7 +63,12 @@ export function listExportProfiles(ctx: AppContext, tenantId: string) {
 
 export async function updateExportProfile(ctx: AppContext, tenantId: string, id: string, patch: Partial<ExportProfileInput>) {
   const profile = await getExportProfile(ctx, tenantId, id);
-  Object.assign(profile, Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)));
+  // Field by field: a patch never reaches the id, the tenant or the timestamps.
+  if (patch.name !== undefined) profile.name = patch.name;
+  if (patch.powerUnit !== undefined) profile.powerUnit = patch.powerUnit;
+  if (patch.timestamps !== undefined) profile.timestamps = patch.timestamps;
+  if (patch.delimiter !== undefined) profile.delimiter = patch.delimiter;
+  if (patch.tagMap !== undefined) profile.tagMap = patch.tagMap;
   profile.updatedAt = new Date();
   try {
     return await ctx.db.manager.save(profile);

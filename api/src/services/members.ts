@@ -36,6 +36,12 @@ function conflict(detail: string, pointer: string) {
   return new HttpProblem({ status: 409, slug: 'conflict', title: 'Already exists', detail, errors: [{ pointer, message: 'already in use' }] });
 }
 
+/** A role a tenant member may hold; `operator` belongs to the service, never to a tenant. */
+function checkedTenantRole(role: unknown): TenantRole {
+  if (!TENANT_ROLES.includes(role as TenantRole)) throw validationProblem([{ pointer: '/role', message: `one of ${TENANT_ROLES.join(', ')}` }]);
+  return role as TenantRole;
+}
+
 async function findUserByEmail(m: EntityManager, email: string) {
   return m.getRepository(User).createQueryBuilder('u').where('lower(u.email) = lower(:email)', { email }).getOne();
 }
@@ -93,7 +99,8 @@ export async function createMember(
   return m.findOneByOrFail(User, { id: user.id });
 }
 
-export async function changeMemberRole(ctx: AppContext, tenantId: string, id: string, role: TenantRole, actor: AuditActor): Promise<User> {
+export async function changeMemberRole(ctx: AppContext, tenantId: string, id: string, requestedRole: TenantRole, actor: AuditActor): Promise<User> {
+  const role = checkedTenantRole(requestedRole);
   return ctx.db.transaction(async (m) => {
     const user = await getMember(m, tenantId, id);
     if (user.role === role) return user;
@@ -114,23 +121,30 @@ export async function removeMember(ctx: AppContext, tenantId: string, id: string
   });
 }
 
+/**
+ * Invites an address into a tenant. An address that already has an account in another tenant (or
+ * is an operator's) gets the same answer as any other, so an invitation tells the inviter nothing
+ * about other tenants: the invitation is recorded and listed like the rest, but the e-mail carries
+ * no link, only a note that the address already has an account and cannot join a second tenant
+ * with it. A member of the same tenant is a 409: the inviter can list the members anyway.
+ */
 export async function inviteMember(
   ctx: AppContext,
   input: { tenantId: string; email: string; role: TenantRole; invitedBy: string | null },
   actor: AuditActor,
-): Promise<{ invitation: Invitation; link: string }> {
-  if (!TENANT_ROLES.includes(input.role)) throw validationProblem([{ pointer: '/role', message: `one of ${TENANT_ROLES.join(', ')}` }]);
+): Promise<{ invitation: Invitation; link: string | null }> {
+  const role = checkedTenantRole(input.role);
   const token = randomToken();
-  const link = `${ctx.config.publicUrl}/accept-invitation?token=${token}`;
-  const { invitation, tenant } = await ctx.db.transaction(async (m) => {
+  const { invitation, tenant, addressTaken } = await ctx.db.transaction(async (m) => {
     const tenant = await m.findOneByOrFail(Tenant, { id: input.tenantId });
-    if (await findUserByEmail(m, input.email)) throw conflict(`An account for ${input.email} already exists.`, '/email');
+    const existing = await findUserByEmail(m, input.email);
+    if (existing?.tenantId === input.tenantId) throw conflict(`${input.email} is already a member of this tenant.`, '/email');
     // A new invitation to the same address replaces the earlier ones.
     await m.update(Invitation, { tenantId: input.tenantId, email: input.email, acceptedAt: IsNull(), revokedAt: IsNull() }, { revokedAt: new Date() });
     const invitation = m.create(Invitation, {
       tenantId: input.tenantId,
       email: input.email.trim(),
-      role: input.role,
+      role,
       tokenHash: sha256Hex(token),
       invitedBy: input.invitedBy,
       expiresAt: new Date(Date.now() + ctx.config.invitationHours * 3_600_000),
@@ -138,20 +152,37 @@ export async function inviteMember(
       revokedAt: null,
     });
     await m.insert(Invitation, invitation);
-    await recordAudit(m, { tenantId: input.tenantId, action: 'member-invited', actor, target: invitation.email, details: { role: input.role } });
-    return { invitation: await m.findOneByOrFail(Invitation, { id: invitation.id }), tenant };
+    await recordAudit(m, { tenantId: input.tenantId, action: 'member-invited', actor, target: invitation.email, details: { role } });
+    return { invitation: await m.findOneByOrFail(Invitation, { id: invitation.id }), tenant, addressTaken: existing !== null };
   });
+  if (addressTaken) {
+    await sendMail(ctx, { to: [invitation.email], subject: `Invitation to ${tenant.name} on Gridwright`, ...addressTakenMail(ctx, tenant.name, role), tenantId: tenant.id, kind: 'invitation-address-taken' });
+    return { invitation, link: null };
+  }
   const mail = composeMail(ctx, {
     tenantName: tenant.name,
     heading: `You are invited to ${tenant.name} on Gridwright`,
     paragraphs: [
-      `You have been invited to join ${tenant.name} as ${input.role}.`,
+      `You have been invited to join ${tenant.name} as ${role}.`,
       `Open the link below to choose your password. It works once and expires on ${invitation.expiresAt.toISOString().slice(0, 16).replace('T', ' ')} UTC.`,
     ],
     link: { label: 'Accept the invitation', path: `/accept-invitation?token=${token}` },
   });
   await sendMail(ctx, { to: [invitation.email], subject: `Invitation to ${tenant.name} on Gridwright`, ...mail, tenantId: tenant.id, kind: 'invitation' });
-  return { invitation, link };
+  return { invitation, link: `${ctx.config.publicUrl}/accept-invitation?token=${token}` };
+}
+
+function addressTakenMail(ctx: AppContext, tenantName: string, role: TenantRole) {
+  return composeMail(ctx, {
+    tenantName,
+    heading: `You are invited to ${tenantName} on Gridwright`,
+    paragraphs: [
+      `Someone at ${tenantName} invited this address to join as ${role}.`,
+      'This address already has a Gridwright account, and an address belongs to one tenant, so it cannot join a second one. ' +
+        `To work with ${tenantName}, ask them to invite another of your addresses. If you did not expect this, ignore this message; nothing changes.`,
+    ],
+    link: { label: 'Sign in to your account', path: '/sign-in' },
+  });
 }
 
 /** Withdraws an invitation not yet accepted; 404 for one of another tenant, accepted or already withdrawn. */

@@ -3,15 +3,38 @@ import { PasswordReset } from '../db/entities/password-reset';
 import { Tenant } from '../db/entities/tenant';
 import { User } from '../db/entities/user';
 import { randomToken, sha256Hex } from '../lib/secret-tokens';
+import { consumePoint, postgresLimiter } from './rate-limits';
 import { recordAudit } from './audit';
 import { composeMail, sendMail } from './mail';
 import { invalidToken } from './members';
 import { assertPasswordAcceptable, hashPassword } from './passwords';
 import { revokeUserSessions } from './sessions';
 
-/** Sends a reset link when the address has an account; the caller answers the same either way. */
-export async function requestPasswordReset(ctx: AppContext, email: string): Promise<void> {
-  const user = await ctx.db.getRepository(User).createQueryBuilder('u').where('lower(u.email) = lower(:email)', { email: email.trim() }).getOne();
+/** One client address may ask for this many times as many reset e-mails per hour as one address may receive. */
+export const RESET_CLIENT_FACTOR = 10;
+const HOUR_SECONDS = 3600;
+
+/**
+ * Whether a reset request may go on: per client address and per requested address (known or
+ * not, so the count reveals nothing), each counted in one atomic statement. A refused request is
+ * answered like any other; it only sends no e-mail.
+ */
+async function resetAllowed(ctx: AppContext, email: string, clientIp: string | null): Promise<boolean> {
+  const perHour = ctx.config.passwordResetEmailsPerHour;
+  const client = await consumePoint(postgresLimiter(ctx, 'reset-client', perHour * RESET_CLIENT_FACTOR, HOUR_SECONDS, true), clientIp ?? 'unknown');
+  if (!client.allowed) return false;
+  const address = await consumePoint(postgresLimiter(ctx, 'reset-address', perHour, HOUR_SECONDS, true), email);
+  return address.allowed;
+}
+
+/** Sends a reset link when the address has an account and no limit is reached; the caller answers the same either way. */
+export async function requestPasswordReset(ctx: AppContext, input: { email: string; ip: string | null }): Promise<void> {
+  const email = input.email.trim().toLowerCase();
+  if (!(await resetAllowed(ctx, email, input.ip))) {
+    ctx.log.info({ ip: input.ip }, 'password reset throttled; no e-mail sent');
+    return;
+  }
+  const user = await ctx.db.getRepository(User).createQueryBuilder('u').where('lower(u.email) = :email', { email }).getOne();
   if (!user) return;
   const token = randomToken();
   const expiresAt = new Date(Date.now() + ctx.config.passwordResetMinutes * 60_000);

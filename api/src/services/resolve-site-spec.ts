@@ -2,6 +2,7 @@ import { DateTime } from 'luxon';
 import type { EntityManager } from 'typeorm';
 import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec, type SpecIssue, type ValidSiteSpec } from '@gridwright/shared/site-spec';
 import { Series } from '../db/entities/series';
+import { kwValueRefusal } from '../lib/kw-values';
 import { validationProblem } from '../lib/problem';
 
 export type SiteSpecResolution = { ok: true; spec: ValidSiteSpec; resolved: ResolvedSiteSpec } | { ok: false; errors: SpecIssue[] };
@@ -51,5 +52,11 @@ async function lookupSupplySeries(manager: EntityManager, tenantId: string, spec
       errors: [{ pointer, message: `the series covers ${DateTime.fromJSDate(series.start).toUTC().toISO()} to ${seriesEnd} in ${series.stepMinutes}-minute steps; it does not cover every step of the horizon` }],
     };
   }
-  return { ok: true, availableKw: series.valuesKw.slice(first, last) };
+  const availableKw = series.valuesKw.slice(first, last);
+  // Series stored before uploads were held to the spec's limits may hold values a spec may not.
+  const bad = availableKw.findIndex((kw) => typeof kw !== 'number' || kwValueRefusal(kw) !== null);
+  if (bad >= 0) {
+    return { ok: false, errors: [{ pointer, message: `the series' value for step ${bad} (${availableKw[bad]}) ${kwValueRefusal(availableKw[bad] ?? NaN)}; upload it again` }] };
+  }
+  return { ok: true, availableKw };
 }

@@ -1,6 +1,8 @@
 import { parse } from 'csv-parse/sync';
 import { DateTime } from 'luxon';
 import { CSV_DELIMITERS } from '../lib/csv-delimiters';
+import { instantInRange } from '../lib/instants';
+import { kwValueRefusal } from '../lib/kw-values';
 import { HttpProblem, type ProblemFieldError } from '../lib/problem';
 
 /**
@@ -155,6 +157,11 @@ export function readSeriesCsv(file: Buffer, opts: CsvReadOptions): CsvRead {
           continue;
         }
         valueKw = value * TO_KW[units[c]];
+        const refusal = kwValueRefusal(valueKw);
+        if (refusal) {
+          errors.push(rowError(row, `column "${valueNames[c]}": ${raw} ${units[c]} (${valueKw} kW) ${refusal}`));
+          continue;
+        }
       }
       columns[c].samples.push({ row, at: instants[k], valueKw });
     }
@@ -171,6 +178,8 @@ function readTimestamp(raw: string, previous: number, opts: CsvReadOptions): { m
   if (!opts.timestampFormat && HAS_OFFSET.test(text)) {
     const dt = DateTime.fromISO(text.replace(' ', 'T'), { setZone: true });
     if (!dt.isValid) return `timestamp "${raw}" is not ISO 8601`;
+    const inRange = instantInRange(dt);
+    if (!inRange.ok) return `timestamp "${raw}": ${inRange.reason}`;
     return { ms: dt.toMillis(), offset: dt.toFormat('ZZ') };
   }
   if (!opts.timezone) return `timestamp "${raw}" has no UTC offset; pass timezone (an IANA zone such as Europe/Berlin) to read local times`;
@@ -189,5 +198,7 @@ function readTimestamp(raw: string, previous: number, opts: CsvReadOptions): { m
   const sameWall = (d: DateTime) => d.hour === local.hour && d.minute === local.minute && d.offset !== local.offset;
   const candidates = [local.minus({ hours: 1 }), local, local.plus({ hours: 1 })].filter((d) => d === local || sameWall(d));
   const chosen = candidates.find((d) => d.toMillis() > previous) ?? local;
+  const inRange = instantInRange(chosen);
+  if (!inRange.ok) return `timestamp "${raw}": ${inRange.reason}`;
   return { ms: chosen.toMillis(), offset: chosen.toFormat('ZZ') };
 }

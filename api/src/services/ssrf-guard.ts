@@ -22,15 +22,35 @@ export class UnsafeUrlError extends Error {
   }
 }
 
+/**
+ * The one form of an IP literal the checks below judge, or null when `text` is no IP literal:
+ * brackets, a zone id (`%eth0`, `%25eth0`) and a trailing dot dropped; IPv4 in any of the
+ * spellings inet_aton reads (decimal, octal, hex, fewer than four parts); and an IPv4 address
+ * carried in IPv6 — mapped (`::ffff:127.0.0.1`) or compatible (`::127.0.0.1`, `::7f00:1`, RFC 4291
+ * §2.5.5.1) — taken out, so it meets the IPv4 rules. (`::` and `::1` keep their IPv6 meaning.)
+ */
+export function normaliseAddress(text: string): ipaddr.IPv4 | ipaddr.IPv6 | null {
+  const bare = stripBrackets(text.trim())
+    .replace(/%.*$/, '')
+    .replace(/\.$/, '');
+  if (!ipaddr.isValid(bare)) return null;
+  const ip = ipaddr.parse(bare);
+  if (ip.kind() === 'ipv4') return ip;
+  const v6 = ip as ipaddr.IPv6;
+  if (v6.isIPv4MappedAddress()) return v6.toIPv4Address();
+  const [a, b, c, d, e, f, high, low] = v6.parts;
+  const compatible = a === 0 && b === 0 && c === 0 && d === 0 && e === 0 && f === 0 && (high !== 0 || low > 1);
+  return compatible ? ipaddr.fromByteArray([high >> 8, high & 0xff, low >> 8, low & 0xff]) : v6;
+}
+
 /** Why an address may not be called, or null when it may. */
 export function addressRefusal(address: string, policy: AddressPolicy): string | null {
-  if (!ipaddr.isValid(address)) return `${address} is not an IP address`;
-  let ip = ipaddr.parse(address);
-  if (ip.kind() === 'ipv6' && (ip as ipaddr.IPv6).isIPv4MappedAddress()) ip = (ip as ipaddr.IPv6).toIPv4Address();
+  const ip = normaliseAddress(address);
+  if (!ip) return `${address} is not an IP address`;
   const range = ip.range();
   if (range === 'unicast') return null;
   if (range === 'loopback' && policy.allowLoopback) return null;
-  return `${address} is a ${range} address; webhooks may only call public addresses`;
+  return `${address} is a ${range} address${ip.toString() === address ? '' : ` (${ip.toString()})`}; webhooks may only call public addresses`;
 }
 
 function stripBrackets(host: string) {
@@ -55,15 +75,16 @@ export function checkUrlForm(raw: string, policy: AddressPolicy): URL {
 /** Every address `host` resolves to, each checked; one refused address refuses the host. */
 export async function resolvePublicAddresses(host: string, policy: AddressPolicy): Promise<{ address: string; family: number }[]> {
   const bare = stripBrackets(host);
-  const addresses = ipaddr.isValid(bare)
-    ? [{ address: bare, family: bare.includes(':') ? 6 : 4 }]
+  const literal = normaliseAddress(bare);
+  const addresses = literal
+    ? [{ address: literal.toString(), family: literal.kind() === 'ipv6' ? 6 : 4 }]
     : await dns.promises.lookup(bare, { all: true, verbatim: true }).catch((err: NodeJS.ErrnoException) => {
         throw new UnsafeUrlError(`host ${bare} does not resolve (${err.code ?? err.message})`);
       });
   if (!addresses.length) throw new UnsafeUrlError(`host ${bare} does not resolve`);
   for (const a of addresses) {
     const refusal = addressRefusal(a.address, policy);
-    if (refusal) throw new UnsafeUrlError(ipaddr.isValid(bare) ? refusal : `host ${bare} resolves to ${refusal}`);
+    if (refusal) throw new UnsafeUrlError(literal ? refusal : `host ${bare} resolves to ${refusal}`);
   }
   return addresses;
 }

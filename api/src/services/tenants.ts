@@ -1,15 +1,15 @@
 import type { EntityManager } from 'typeorm';
+import { buildPointer } from '@gridwright/shared/json-pointer';
 import type { AppContext } from '../context';
 import { Plan } from '../db/entities/plan';
 import { Tenant, type LimitOverrides } from '../db/entities/tenant';
 import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
+import { isLimitName, LIMIT_NAMES, limitValueRefusal, type LimitName } from '../lib/limit-ranges';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
 import { inviteMember } from './members';
 
-export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns', 'webhookEndpoints'] as const;
-export type LimitName = (typeof LIMIT_NAMES)[number];
 export type TenantLimits = Record<LimitName, number>;
 
 export async function findTenant(manager: EntityManager, id: string): Promise<Tenant | null> {
@@ -85,6 +85,34 @@ export interface TenantChanges {
   limitOverrides?: Partial<Record<LimitName, number | null>>;
 }
 
+/**
+ * The overrides after `changes` (null removes one). Each must be a known limit and a number in its
+ * range: an override is what a quota is checked against, so anything else would switch it off.
+ */
+function nextOverrides(current: LimitOverrides, changes: unknown): LimitOverrides {
+  if (!changes || typeof changes !== 'object' || Array.isArray(changes)) {
+    throw validationProblem([{ pointer: '/limitOverrides', message: 'must be an object of limit names and numbers' }]);
+  }
+  const errors: { pointer: string; message: string }[] = [];
+  const next: LimitOverrides = { ...current };
+  for (const [name, value] of Object.entries(changes)) {
+    const pointer = buildPointer(['limitOverrides', name]);
+    if (!isLimitName(name)) {
+      errors.push({ pointer, message: `not a limit; one of ${LIMIT_NAMES.join(', ')}` });
+      continue;
+    }
+    if (value === null) {
+      delete next[name];
+      continue;
+    }
+    const refusal = limitValueRefusal(name, value);
+    if (refusal) errors.push({ pointer, message: refusal });
+    else next[name] = value as number;
+  }
+  if (errors.length) throw validationProblem(errors);
+  return next;
+}
+
 export async function updateTenant(ctx: AppContext, id: string, changes: TenantChanges, actor: AuditActor): Promise<Tenant> {
   return ctx.db.transaction(async (m) => {
     const tenant = await getTenantOr404(m, id);
@@ -98,12 +126,8 @@ export async function updateTenant(ctx: AppContext, id: string, changes: TenantC
       await recordAudit(m, { tenantId: id, action: 'plan-changed', actor, target: tenant.slug, details: { from: tenant.planId, to: changes.planId } });
       tenant.planId = changes.planId;
     }
-    if (changes.limitOverrides) {
-      const next: LimitOverrides = { ...tenant.limitOverrides };
-      for (const [name, value] of Object.entries(changes.limitOverrides) as [LimitName, number | null][]) {
-        if (value === null) delete next[name];
-        else next[name] = value;
-      }
+    if (changes.limitOverrides !== undefined) {
+      const next = nextOverrides(tenant.limitOverrides, changes.limitOverrides);
       await recordAudit(m, { tenantId: id, action: 'limits-changed', actor, target: tenant.slug, details: { from: tenant.limitOverrides, to: next } });
       tenant.limitOverrides = next;
     }

@@ -6,7 +6,12 @@ import { router } from './router';
 export function App() {
   return (
     <QueryClientProvider client={queryClient}>
-      <RouterProvider router={router} />
+      {/*
+        Navigations commit at once instead of in a transition: in a transition a slow machine kept
+        the previous page on screen, still taking input, after a nav link was clicked, and what a
+        person typed there (a new key's name on the keys page) went to the page being left.
+      */}
+      <RouterProvider router={router} useTransitions={false} />
     </QueryClientProvider>
   );
 }

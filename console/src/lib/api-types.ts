@@ -45,7 +45,11 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** Prometheus text exposition format. */
+        /**
+         * Prometheus text exposition format.
+         * @description Not for API keys or sessions. With `METRICS_TOKEN` set, every scraper sends
+         *     `Authorization: Bearer <METRICS_TOKEN>`; without it only loopback clients are answered.
+         */
         get: operations["getMetrics"];
         put?: never;
         post?: never;
@@ -85,7 +89,10 @@ export interface paths {
          * Sign in with e-mail and password; sets the session and CSRF cookies.
          * @description Sets `gw_session` (httpOnly, SameSite=Lax, a short-lived signed JWT backed by a server-side
          *     session row) and `gw_csrf` (readable by the console; send it back as `X-CSRF-Token` on every
-         *     unsafe request). Repeated failures are slowed and then locked per account and per address (429).
+         *     unsafe request). Every attempt is counted before its password is checked. Failures slow the
+         *     answers from the second on, and lock (429 with Retry-After): the account from one client
+         *     address after SIGNIN_MAX_FAILURES, one address over all accounts and one account over all
+         *     addresses after ten times that. An unknown address is answered exactly like a wrong password.
          */
         post: operations["signIn"];
         delete?: never;
@@ -154,7 +161,11 @@ export interface paths {
         };
         get?: never;
         put?: never;
-        /** E-mail a single-use reset link; the answer is the same whether or not the address has an account. */
+        /**
+         * E-mail a single-use reset link; the answer is the same whether or not the address has an account.
+         * @description Always 202, at once. At most PASSWORD_RESET_EMAILS_PER_HOUR links go to one address an hour,
+         *     and one client address may ask ten times as often; requests beyond that send nothing.
+         */
         post: operations["requestPasswordReset"];
         delete?: never;
         options?: never;
@@ -206,7 +217,13 @@ export interface paths {
         /** The tenant's members, newest first. */
         get: operations["listMembers"];
         put?: never;
-        /** Add a member by e-mail invitation (same as POST /v1/members/invitations). */
+        /**
+         * Add a member by e-mail invitation (same as POST /v1/members/invitations).
+         * @description An address that already has an account in another tenant is answered like any other (201, the
+         *     invitation is listed), so an invitation reveals nothing about other tenants; its e-mail carries no
+         *     link, only a note that the address cannot join a second tenant. 409 when a member of this tenant
+         *     already uses the address.
+         */
         post: operations["addMember"];
         delete?: never;
         options?: never;
@@ -244,7 +261,13 @@ export interface paths {
         /** Pending invitations (not accepted, not revoked, not expired). */
         get: operations["listInvitations"];
         put?: never;
-        /** E-mail a single-use invitation link; accepting it sets the password. */
+        /**
+         * E-mail a single-use invitation link; accepting it sets the password.
+         * @description An address that already has an account in another tenant is answered like any other (201, the
+         *     invitation is listed), so an invitation reveals nothing about other tenants; its e-mail carries no
+         *     link, only a note that the address cannot join a second tenant. 409 when a member of this tenant
+         *     already uses the address.
+         */
         post: operations["inviteMember"];
         delete?: never;
         options?: never;
@@ -517,7 +540,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** Every e-mail the service sent, as the local SMTP server received it, newest first. */
+        /**
+         * Every e-mail the service sent, as the local SMTP server received it, newest first.
+         * @description The single-use links of invitations and password resets show `token=[hidden]`; only their recipients hold them.
+         */
         get: operations["adminListOutbox"];
         put?: never;
         post?: never;
@@ -536,7 +562,10 @@ export interface paths {
             };
             cookie?: never;
         };
-        /** One message, with its raw RFC 5322 source. */
+        /**
+         * One message, with its raw RFC 5322 source.
+         * @description Single-use link tokens are hidden in the bodies and in the source; a source whose token cannot be found to hide (a base64 part) is shown without its bodies.
+         */
         get: operations["adminGetOutboxMessage"];
         put?: never;
         post?: never;
@@ -2000,6 +2029,8 @@ export interface operations {
                     "text/plain": string;
                 };
             };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
         };
     };
     getOpenApiDocument: {
@@ -2992,7 +3023,7 @@ export interface operations {
             query?: {
                 cursor?: string;
                 limit?: number;
-                /** @description e.g. `invitation`, `password-reset`, `quota-warning`, `webhook-disabled`. */
+                /** @description e.g. `invitation`, `invitation-address-taken`, `password-reset`, `quota-warning`, `webhook-disabled`. */
                 kind?: string;
                 tenantId?: string;
                 /** @description A recipient address. */

@@ -1,4 +1,5 @@
 import { expect } from 'vitest';
+import { countStatus } from './status-tally';
 
 /** RFC 6901: the empty string, or `/` followed by segments with `~` only as `~0` or `~1`. */
 export const isJsonPointer = (p: unknown) => typeof p === 'string' && /^(\/([^~]|~[01])*)*$/u.test(p);
@@ -12,6 +13,7 @@ interface ResponseLike {
 
 /** A refusal is never a 5xx, is problem+json (RFC 9457), and a validation refusal names each field by pointer. */
 export function expectCleanRefusal(res: ResponseLike, context: string) {
+  countStatus(res.status);
   expect(res.status, `${context}: ${res.text.slice(0, 300)}`).toBeLessThan(500);
   if (res.status < 400) return;
   expect(res.headers['content-type'], context).toMatch(/^application\/problem\+json/);

@@ -79,7 +79,9 @@ describe('the permission matrix, route by route', () => {
       });
       callers.push({ label: `${role} fresh session`, allowed: (a) => roleAllows(role, a), headers: () => session(role) });
     }
-    for (const scopes of [...SCOPES.map((s) => [s]), []] as Scope[][]) {
+    // A key without scopes cannot exist (the service and the database refuse one); each single scope is a caller.
+    await expect(createApiKey(t.ctx, { tenantId, name: 'no scope', scopes: [] }, {})).rejects.toMatchObject({ status: 400 });
+    for (const scopes of SCOPES.map((s) => [s]) as Scope[][]) {
       const { key } = await createApiKey(t.ctx, { tenantId, name: `probe ${scopes.join(',') || 'none'}`, scopes }, {});
       callers.push({
         label: `API key with ${scopes.join(',') || 'no scope'}`,

@@ -41,7 +41,11 @@ export function unknownIds(op: Operation): Record<string, string> {
 
 /** Sends `op` as `actor` with the given path values and the document's example body. */
 export function send(app: Express, doc: Record<string, any>, op: Operation, actor: Actor, pathValues: Record<string, string>, body?: unknown): request.Test {
-  const url = fillPath(op.path, pathValues);
+  return sendTo(app, doc, op, actor, fillPath(op.path, pathValues), body);
+}
+
+/** The same to a URL of one's own, e.g. another spelling of the operation's path. */
+export function sendTo(app: Express, doc: Record<string, any>, op: Operation, actor: Actor, url: string, body?: unknown): request.Test {
   let req = (request(app) as any)[op.method](url).set('Accept', 'application/json') as request.Test;
   if (actor.kind === 'session') {
     req = req.set('Cookie', actor.cookie).set('X-CSRF-Token', actor.csrf);

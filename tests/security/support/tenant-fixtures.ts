@@ -1,7 +1,8 @@
 import request from 'supertest';
 import { expect } from 'vitest';
 import { createTenantWithKey, createUserSession } from '../../support/tenants';
-import type { TestApp } from '../../support/test-app';
+import { startTestApp, type TestApp } from '../../support/test-app';
+import { startWebhookReceiver } from '../../support/webhook-receiver';
 import { collectionOf, send, SMALL_SERIES_CSV, type Actor } from './operation-requests';
 import type { Operation } from './openapi-operations';
 
@@ -77,3 +78,33 @@ export function fixtureValues(op: Operation, fixtures: Map<string, string>): Rec
 }
 
 export { send };
+
+export interface AppWithResources {
+  t: TestApp;
+  tenant: TenantWithResources;
+  /** An operator session acting on the tenant (X-Tenant-Id). */
+  operator: Extract<Actor, { kind: 'session' }>;
+  /** Who may call `op`: nobody for public operations, the operator for operator actions, else the tenant's owner. */
+  actorFor(op: Operation): Actor;
+  close(): Promise<void>;
+}
+
+/** An app (rate limits out of the way) with a tenant holding one resource of every kind, and its callers. */
+export async function startAppWithResources(doc: Record<string, any>, marker: string): Promise<AppWithResources> {
+  const t = await startTestApp({ RATE_LIMIT_WINDOW_SECONDS: '3600' });
+  const receiver = await startWebhookReceiver();
+  const tenant = await createTenantWithResources(t, doc, { marker, receiverUrl: receiver.url });
+  const op = await createUserSession(t.ctx, t.app, { tenantId: tenant.tenantId, role: 'operator' });
+  const operator = { kind: 'session' as const, label: 'operator', cookie: op.cookie, csrf: op.csrf, tenantHeader: tenant.tenantId };
+  return {
+    t,
+    tenant,
+    operator,
+    actorFor: (o) =>
+      !o.secured ? { kind: 'anonymous', label: 'nobody' } : o.permission && ['tenants.operate', 'outbox.read'].includes(o.permission) ? operator : tenant.owner,
+    async close() {
+      await receiver.close();
+      await t.close();
+    },
+  };
+}
