@@ -23,6 +23,7 @@ import { Series1780000300000 } from './migrations/1780000300000-series';
 import { Webhooks1780000310000 } from './migrations/1780000310000-webhooks';
 import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-profiles';
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
+import { CredentialChangeNotices1780000520000 } from './migrations/1780000520000-credential-change-notices';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -35,4 +36,5 @@ export const migrations: Constructor[] = [
   Accounts1780000000000,
   Runs1780000100000, QueueSchema1780000110000, Series1780000300000, Webhooks1780000310000, ExportProfiles1780000320000,
   RunStatusCheck1780000400000,
+  CredentialChangeNotices1780000520000,
 ];
