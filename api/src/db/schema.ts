@@ -24,6 +24,7 @@ import { Webhooks1780000310000 } from './migrations/1780000310000-webhooks';
 import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-profiles';
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
 import { CredentialChangeNotices1780000520000 } from './migrations/1780000520000-credential-change-notices';
+import { RatePointReservations1780000530000 } from './migrations/1780000530000-rate-point-reservations';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -36,5 +37,5 @@ export const migrations: Constructor[] = [
   Accounts1780000000000,
   Runs1780000100000, QueueSchema1780000110000, Series1780000300000, Webhooks1780000310000, ExportProfiles1780000320000,
   RunStatusCheck1780000400000,
-  CredentialChangeNotices1780000520000,
+  CredentialChangeNotices1780000520000, RatePointReservations1780000530000,
 ];
