@@ -12,6 +12,7 @@ import { parse as parseYaml } from 'yaml';
 import type { AppContext } from './context';
 import { databaseReadiness } from './db/data-source';
 import { errorHandler, notFoundHandler } from './lib/error-handler';
+import { compileOpenApiRoutePatternsOnce } from './lib/openapi-route-patterns';
 import { problemType } from './lib/problem';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
@@ -108,6 +109,7 @@ export function buildApp(ctx: AppContext): Express {
 
   app.use(express.json({ limit: ctx.config.bodyLimit, type: ['application/json', 'application/*+json'] }));
   app.use(cookieParser());
+  compileOpenApiRoutePatternsOnce();
   app.use(
     OpenApiValidator.middleware({
       apiSpec: validatorDoc,
