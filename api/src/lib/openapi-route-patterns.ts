@@ -34,6 +34,9 @@ export function compileOpenApiRoutePatternsOnce(): void {
 }
 
 function sameOptions(a: object, b: object): boolean {
-  const keys = Object.keys(a);
-  return keys.length === Object.keys(b).length && keys.every((k) => (a as Record<string, unknown>)[k] === (b as Record<string, unknown>)[k]);
+  const x = a as Record<string, unknown>;
+  const y = b as Record<string, unknown>;
+  for (const k in x) if (x[k] !== y[k]) return false;
+  for (const k in y) if (!(k in x)) return false;
+  return true;
 }
