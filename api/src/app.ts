@@ -1,4 +1,3 @@
-import { randomUUID } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -6,7 +5,6 @@ import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import * as OpenApiValidator from 'express-openapi-validator';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import swaggerUi from 'swagger-ui-express';
 import { parse as parseYaml } from 'yaml';
 import type { AppContext } from './context';
@@ -14,6 +12,7 @@ import { databaseReadiness } from './db/data-source';
 import { errorHandler, notFoundHandler } from './lib/error-handler';
 import { compileOpenApiRoutePatternsOnce } from './lib/openapi-route-patterns';
 import { problemType } from './lib/problem';
+import { requestLog } from './lib/request-log';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
 import { auditRouter } from './routes/audit';
@@ -48,18 +47,7 @@ export function buildApp(ctx: AppContext): Express {
   app.set('trust proxy', ctx.config.trustProxy);
   app.set('query parser', 'extended');
 
-  app.use(
-    pinoHttp({
-      logger: ctx.log,
-      genReqId: (req, res) => {
-        const incoming = req.headers['x-request-id'];
-        const id = typeof incoming === 'string' && /^[\w.-]{1,100}$/.test(incoming) ? incoming : randomUUID();
-        res.setHeader('X-Request-Id', id);
-        return id;
-      },
-      autoLogging: { ignore: (req) => req.url === '/healthz' || req.url === '/metrics' },
-    }),
-  );
+  app.use(requestLog(ctx.log, { ignore: (url) => url === '/healthz' || url === '/metrics' }));
   app.use(
     helmet({
       // Behind plain http on loopback, upgrading requests or pinning HSTS would break the console.

@@ -49,7 +49,6 @@ export async function consumePoint(limiter: RateLimiterPostgres, key: string): P
   }
 }
 
-
 /**
  * A process takes this share of a counter's quota in one batch. With N processes serving one
  * credential, at most the quota is admitted per window, and a request may be refused while up to
