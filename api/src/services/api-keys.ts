@@ -8,7 +8,7 @@ import type { Scope } from '../lib/roles-and-scopes';
 import { safeEqual, sha256Hex } from '../lib/secret-tokens';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
-import { credentialCacheFor } from './credential-cache';
+import { credentialCacheFor, forgetCredentialChange } from './credential-cache';
 
 // `gw_<12 hex: prefix, stored and shown>_<43 base64url: secret>`; the whole key is hashed.
 const KEY_FORMAT = /^gw_([0-9a-f]{12})_([A-Za-z0-9_-]{43})$/;
@@ -97,7 +97,7 @@ export async function revokeApiKey(ctx: AppContext, tenantId: string, id: string
     return m.findOneByOrFail(ApiKey, { id });
   });
   // Other processes drop the key on the change notice; this one before it answers.
-  credentialCacheFor(ctx).forget({ table: 'api_keys', id });
+  forgetCredentialChange(ctx, { table: 'api_keys', id });
   return revoked;
 }
 

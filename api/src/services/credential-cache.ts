@@ -86,3 +86,8 @@ export function credentialCacheFor(ctx: AppContext): CredentialCache {
   }
   return cache;
 }
+
+/** Drops this process's copy of what `change` touched, when it keeps one (API processes do; CLIs and workers do not). */
+export function forgetCredentialChange(ctx: AppContext, change: CredentialChange): void {
+  caches.get(ctx.db)?.forget(change);
+}

@@ -6,7 +6,7 @@ import { pageNewestFirst, type PageQuery } from '../lib/pagination';
 import { HttpProblem, notFound, validationProblem } from '../lib/problem';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
-import { credentialCacheFor, type TenantAndPlan } from './credential-cache';
+import { credentialCacheFor, forgetCredentialChange, type TenantAndPlan } from './credential-cache';
 import { inviteMember } from './members';
 
 export const LIMIT_NAMES = ['monthlyRuns', 'monthlySolverSeconds', 'maxSteps', 'maxUnits', 'requestsPerSecond', 'concurrentRuns'] as const;
@@ -95,7 +95,7 @@ export async function createTenantWithOwner(
  */
 async function afterCommitForgetTenant<T>(ctx: AppContext, id: string, change: (m: EntityManager) => Promise<T>): Promise<T> {
   const result = await ctx.db.transaction(change);
-  credentialCacheFor(ctx).forget({ table: 'tenants', id });
+  forgetCredentialChange(ctx, { table: 'tenants', id });
   return result;
 }
 
