@@ -109,7 +109,10 @@ export function buildApp(ctx: AppContext): Express {
     }),
   );
 
-  // Resource routers are mounted here, one per resource (see DEVELOPERS.md).
+  // Resource routers are mounted here, one per resource (see DEVELOPERS.md). Their paths do not
+  // overlap; runs come first because clients poll GET /v1/runs/{id}, and every router before it
+  // tries its routes on each poll.
+  app.use(runsRouter(ctx));
   app.use(authRouter(ctx));
   app.use(membersRouter(ctx));
   app.use(apiKeysRouter(ctx));
@@ -118,7 +121,6 @@ export function buildApp(ctx: AppContext): Express {
   app.use(auditRouter(ctx));
   app.use(adminTenantsRouter(ctx));
   app.use(outboxRouter(ctx));
-  app.use(runsRouter(ctx));
   app.use(specsRouter(ctx));
   app.use(seriesRouter(ctx));
   app.use(webhookEndpointsRouter(ctx));
