@@ -1,6 +1,7 @@
 // The entity classes and migrations TypeORM knows about. Listed explicitly (no globs) so that tsx,
 // Vitest and the CLIs all load the same class objects.
 import { ApiKey } from './entities/api-key';
+import { BillingAccount } from './entities/billing-account';
 import { AuditEvent } from './entities/audit-event';
 import { Invitation } from './entities/invitation';
 import { OutboxMessage } from './entities/outbox-message';
@@ -25,12 +26,13 @@ import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-p
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
 import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues';
 import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
+import { Billing1780000760000 } from './migrations/1780000760000-billing';
 
 type Constructor = new (...args: any[]) => unknown;
 
 export const entities: Constructor[] = [
   Plan, Tenant, User, Session, ApiKey, Invitation, PasswordReset, AuditEvent, OutboxMessage, RunUsage,
-  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile,
+  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile, BillingAccount,
 ];
 
 export const migrations: Constructor[] = [
@@ -39,4 +41,5 @@ export const migrations: Constructor[] = [
   RunStatusCheck1780000400000,
   InputGuards1780000500000,
   FairQueues1780000600000,
+  Billing1780000760000,
 ];
