@@ -2,7 +2,8 @@
 // the provider as usage of the metered price. Each report is first written as a row, in whole
 // seconds, under a per-tenant lock, so reports never overlap; the row's id is the meter event's
 // identifier and the request's idempotency key, so sending it again (after a failure, from any
-// worker) is counted once. The provider bills the usage on the invoice of the period it falls in.
+// worker) is counted once. The provider stamps the usage when it receives it and bills it on the
+// invoice of the period that time falls in.
 import type { AppContext } from '../context';
 import type { BillingPeriod } from '../services/billing-period';
 import { SOLVER_SECONDS_METER_EVENT } from './catalogue';
@@ -40,8 +41,8 @@ export async function reportSolverOverage(ctx: AppContext, usage: PeriodUsage): 
 /** Sends unsent usage reports (one tenant's, or all), oldest first; a report the provider refuses stays for the next try. */
 export async function sendUsageReports(ctx: AppContext, tenantId?: string): Promise<number> {
   if (!billingEnabled(ctx)) return 0;
-  const rows: { id: string; customer_id: string; solver_seconds: number; created_at: Date }[] = await ctx.db.query(
-    `SELECT id, customer_id, solver_seconds, created_at FROM billing_usage_reports WHERE reported_at IS NULL AND ($1::uuid IS NULL OR tenant_id = $1) ORDER BY created_at LIMIT 500`,
+  const rows: { id: string; customer_id: string; solver_seconds: number }[] = await ctx.db.query(
+    `SELECT id, customer_id, solver_seconds FROM billing_usage_reports WHERE reported_at IS NULL AND ($1::uuid IS NULL OR tenant_id = $1) ORDER BY created_at LIMIT 500`,
     [tenantId ?? null],
   );
   let sent = 0;
@@ -51,7 +52,6 @@ export async function sendUsageReports(ctx: AppContext, tenantId?: string): Prom
         {
           event_name: SOLVER_SECONDS_METER_EVENT,
           identifier: row.id,
-          timestamp: Math.floor(row.created_at.getTime() / 1000),
           payload: { stripe_customer_id: row.customer_id, value: String(row.solver_seconds) },
         },
         { idempotencyKey: `gridwright-usage-${row.id}` },

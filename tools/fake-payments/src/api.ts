@@ -371,6 +371,23 @@ export function providerApi(ledger: Ledger): Router {
     res.json(endpoint);
   });
 
+  r.post('/v1/webhook_endpoints/:id', (req, res) => {
+    const p = params(req);
+    const endpoint = account(req).webhookEndpoints[req.params.id as string];
+    if (!endpoint) throw missing('webhook_endpoint', req.params.id as string);
+    const url = text(p, 'url');
+    if (url !== undefined) {
+      if (!/^https?:\/\//.test(url)) throw invalid('url', 'Invalid URL: must be http or https.');
+      endpoint.url = url;
+    }
+    const events = arrayOf(p, 'enabled_events')?.map(String);
+    if (events?.length) endpoint.enabled_events = events;
+    const disabled = flag(p, 'disabled');
+    if (disabled !== undefined) endpoint.status = disabled ? 'disabled' : 'enabled';
+    ledger.store.changed();
+    res.json(endpointView(endpoint));
+  });
+
   r.get('/v1/webhook_endpoints', (req, res) => {
     res.json(page(Object.values(account(req).webhookEndpoints).map(endpointView), params(req), '/v1/webhook_endpoints'));
   });
