@@ -43,6 +43,8 @@ export async function startBillingApp(opts: { env?: Record<string, string>; deli
     s.on('error', reject);
   });
   const appUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  // The app's address is known once it listens; links it hands out (the checkout's way back) use it.
+  t.ctx.config.publicUrl = appUrl;
   await provider.webhookEndpoints.update(endpoint.id, { url: `${appUrl}/hooks/payments`, disabled: opts.deliver === false });
   return {
     t,

@@ -134,7 +134,7 @@ function checkoutPage(ledger: Ledger, account: Account, sessionId: string, error
   const currency = items[0]?.currency ?? 'eur';
   const rows = licensed.map((p) => ({ description: `${account.products[p.product]?.name ?? p.product}, every month`, amount: p.unit_amount ?? 0 }));
   const meteredNote = metered
-    .map((p) => `<p class="muted">Plus ${escapeHtml(account.products[p.product]?.name ?? p.product)}: ${formatAmount(p.unit_amount ?? 0, p.currency)} per ${p.transform_quantity ? `${p.transform_quantity.divide_by} units, started` : 'unit'}, billed after each month.</p>`)
+    .map((p) => `<p class="muted">Plus ${escapeHtml(account.products[p.product]?.name ?? p.product)}: ${formatAmount(p.unit_amount ?? 0, p.currency)} per ${p.transform_quantity ? `started block of ${p.transform_quantity.divide_by} units` : 'unit'}, billed after each month.</p>`)
     .join('');
   return page('Checkout', `<h1>Subscribe</h1>
 <p class="muted">${customer?.email ? `For ${escapeHtml(customer.email)}` : ''}</p>

@@ -24,7 +24,7 @@ export function PlanComparison({ plans, billing, canManage }: { plans: Plan[]; b
     if (plan.id === billing.freePlanId) {
       return subscribed ? (
         <Button size="sm" disabled={busy || billing.subscription?.scheduledPlanId === plan.id} onClick={() => change.mutate(plan.id)}>
-          Move at period end
+          Move to {plan.name} at period end
         </Button>
       ) : null;
     }
