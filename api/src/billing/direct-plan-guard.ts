@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { HttpProblem } from '../lib/problem';
+import { PAYING_STATUSES } from './subscription-statuses';
 
 /**
  * Refuses to set a plan directly (an operator's PATCH, the admin CLI) while it is decided elsewhere: by
@@ -7,8 +8,8 @@ import { HttpProblem } from '../lib/problem';
  */
 export async function assertPlanSetDirectly(manager: EntityManager, tenantId: string): Promise<void> {
   const [row]: { granted_plan_id: string | null; paying: boolean }[] = await manager.query(
-    `SELECT granted_plan_id, subscription_status IN ('active', 'trialing', 'past_due') AS paying FROM billing_accounts WHERE tenant_id = $1`,
-    [tenantId],
+    `SELECT granted_plan_id, subscription_status = ANY($2) AS paying FROM billing_accounts WHERE tenant_id = $1`,
+    [tenantId, PAYING_STATUSES],
   );
   if (row?.granted_plan_id) {
     throw new HttpProblem({
