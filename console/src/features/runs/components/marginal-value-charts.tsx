@@ -7,11 +7,21 @@ import { ChartFrame } from '@/components/chart-frame';
 import { chartColors } from '@/lib/chart-colors';
 import { bucketRows } from '../lib/chart-data';
 import { storeUnit } from '../lib/level-points';
-import { marginalValuePoints, storeValueKey, type MarginalValuePoint } from '../lib/marginal-value-points';
+import { anyPriceKnown, marginalValuePoints, storeValueKey, type MarginalValuePoint } from '../lib/marginal-value-points';
 import { stepLabel, timeAxisProps, timelineChartProps, valueAxisProps } from './time-axes';
 
 function ValueChart({ title, dataKey, name, unit, data, color }: { title: string; dataKey: string; name: string; unit: string; data: MarginalValuePoint[]; color: string }) {
   const gaps = data.some((p) => p[dataKey] === null);
+  // An empty plot would read as "worth nothing"; say instead that no price is known.
+  if (!anyPriceKnown(data, dataKey)) {
+    return (
+      <ChartFrame title={title} note={unit} height={40}>
+        <p className="flex h-full items-center justify-center text-[12px] text-ash-500">
+          No price is known at any step: the pricing solve after the schedule did not finish in the run&apos;s time limit.
+        </p>
+      </ChartFrame>
+    );
+  }
   return (
     <ChartFrame title={title} note={gaps ? `${unit} · gaps: no price known` : unit} height={150}>
       <ResponsiveContainer width="100%" height="100%">

@@ -20,3 +20,8 @@ export function marginalValuePoints(schedule: Schedule): MarginalValuePoint[] {
     return row;
   });
 }
+
+/** Whether any step of the series under `key` has a price: none has one when the pricing solve ran out of time. */
+export function anyPriceKnown(points: MarginalValuePoint[], key: string): boolean {
+  return points.some((p) => typeof p[key] === 'number');
+}
