@@ -25,6 +25,7 @@ import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-p
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
 import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues';
 import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
+import { SeriesKinds1780000710000 } from './migrations/1780000710000-series-kinds';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -39,4 +40,5 @@ export const migrations: Constructor[] = [
   RunStatusCheck1780000400000,
   InputGuards1780000500000,
   FairQueues1780000600000,
+  SeriesKinds1780000710000,
 ];
