@@ -41,8 +41,8 @@ export async function uploadSeries(
     for (const [i, { column, r }] of prepared.entries()) {
       const [row] = await manager.query(
         `INSERT INTO series (tenant_id, name, source_filename, source_column, source_unit, kind, unit, start, start_offset, time_zone,
-                             step_minutes, steps, step_values, source_rows, filled, fill_policy, upload_id, suggested_role)
-         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18) RETURNING id`,
+                             step_minutes, steps, step_values, source_rows, filled, fill_policy, upload_id, column_index, suggested_role)
+         VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17, $18, $19) RETURNING id`,
         [
           tenantId,
           read.columns.length > 1 ? `${baseName} · ${column.name}` : baseName,
@@ -61,6 +61,7 @@ export async function uploadSeries(
           JSON.stringify(r.filled),
           fill,
           uploadId,
+          i,
           roles[i],
         ],
       );
@@ -80,13 +81,14 @@ export async function getSeries(ctx: AppContext, tenantId: string, id: string): 
 export function listSeries(ctx: AppContext, tenantId: string, limit = 100) {
   return ctx.db.manager.find(Series, {
     where: { tenantId },
-    order: { createdAt: 'DESC', id: 'DESC' },
+    // Newest upload first, the columns of a file in the file's order.
+    order: { createdAt: 'DESC', uploadId: 'ASC', columnIndex: 'ASC', id: 'DESC' },
     take: limit,
     // The values stay out of lists; GET /v1/series/{id} returns them.
     select: {
       id: true, tenantId: true, createdAt: true, name: true, sourceFilename: true, sourceColumn: true, sourceUnit: true, kind: true, unit: true,
       start: true, startOffset: true, timeZone: true, stepMinutes: true, steps: true, sourceRows: true, filled: true, fillPolicy: true,
-      uploadId: true, suggestedRole: true,
+      uploadId: true, columnIndex: true, suggestedRole: true,
     },
   });
 }

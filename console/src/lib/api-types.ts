@@ -621,7 +621,7 @@ export interface paths {
         };
         /**
          * The tenant's runs, newest first.
-         * @description Cursor pagination; the `Link` header carries `rel="next"` while more runs exist.
+         * @description Cursor pagination; the `Link` header carries `rel="next"` while more runs exist. A finished run carries its `objective` (net value: value positive, cost negative); the rest of its result is read from `GET /v1/runs/{runId}`.
          */
         get: operations["listRuns"];
         put?: never;
@@ -1682,11 +1682,15 @@ export interface components {
                 steps?: number;
             };
             /** @description The site spec to build into, complete or not; default: none (a spec of only what the roles give). */
-            base?: Record<string, never>;
+            base?: {
+                [key: string]: unknown;
+            };
         };
         SpecDraft: {
             /** @description The site spec as built: submit it to `POST /v1/runs` once `problems` is empty. */
-            spec: Record<string, never>;
+            spec: {
+                [key: string]: unknown;
+            };
             /** @description What the draft changed or leaves to decide, at the field concerned. */
             notes: components["schemas"]["ProblemFieldError"][];
             /** @description The site-spec check of the draft (the messages `POST /v1/specs/validate` gives). */

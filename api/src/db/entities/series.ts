@@ -30,6 +30,8 @@ export class Series {
   @Column('text', { name: 'time_zone', nullable: true }) timeZone!: string | null;
   /** The columns of one file share it; null for series stored before uploads were grouped. */
   @Column('uuid', { name: 'upload_id', nullable: true }) uploadId!: string | null;
+  /** The column's place among the file's value columns, from 0. */
+  @Column('integer', { name: 'column_index', nullable: true }) columnIndex!: number | null;
   @Column('text', { name: 'suggested_role', nullable: true }) suggestedRole!: SeriesRole | null;
   @Column('integer', { name: 'source_rows' }) sourceRows!: number;
   @Column('jsonb') filled!: FilledRange[];

@@ -12,9 +12,9 @@ const PRICE = `$[*] ? (@.type() != "number" || @ < -${MAX_PRICE} || @ > ${MAX_PR
 /**
  * A series is a power, a price or a product rate (shared/src/series-roles.ts), so its values are
  * no longer only kW: `values_kw` becomes `step_values`, in the series' `unit`. A series also keeps
- * the IANA zone its file was read in (offered as `horizon.timeZone`), the upload it came from (the
- * columns of one file belong together) and the role its header suggests. Rows stored before were
- * all powers in kW.
+ * the IANA zone its file was read in (offered as `horizon.timeZone`), the upload it came from and its
+ * place in the file (the columns of one file belong together, in order) and the role its header suggests. Rows stored before were
+ * all powers in kW, each its own upload.
  */
 export class SeriesKinds1780000710000 implements MigrationInterface {
   name = 'SeriesKinds1780000710000';
@@ -27,6 +27,7 @@ export class SeriesKinds1780000710000 implements MigrationInterface {
         ADD COLUMN unit text NOT NULL DEFAULT 'kW',
         ADD COLUMN time_zone text,
         ADD COLUMN upload_id uuid,
+        ADD COLUMN column_index integer CHECK (column_index >= 0),
         ADD COLUMN suggested_role text`);
     await q.query(`ALTER TABLE series DROP CONSTRAINT series_values_check`);
     await q.query(`
@@ -50,7 +51,7 @@ export class SeriesKinds1780000710000 implements MigrationInterface {
       ALTER TABLE series
         DROP CONSTRAINT series_values_check, DROP CONSTRAINT series_time_zone_check,
         DROP CONSTRAINT series_suggested_role_check, DROP CONSTRAINT series_kind_check`);
-    await q.query(`ALTER TABLE series DROP COLUMN suggested_role, DROP COLUMN upload_id, DROP COLUMN time_zone, DROP COLUMN unit, DROP COLUMN kind`);
+    await q.query(`ALTER TABLE series DROP COLUMN suggested_role, DROP COLUMN column_index, DROP COLUMN upload_id, DROP COLUMN time_zone, DROP COLUMN unit, DROP COLUMN kind`);
     await q.query(`ALTER TABLE series RENAME COLUMN step_values TO values_kw`);
     await q.query(`
       ALTER TABLE series ADD CONSTRAINT series_values_check CHECK (

@@ -1,7 +1,8 @@
 import { useMemo } from 'react';
-import { CartesianGrid, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { Schedule } from '@gridwright/shared/run-result';
 import { chartColors, seriesPalette } from '@/lib/chart-colors';
+import { axisUnit, legendStyle, tickNumber, valueWithUnit } from '@/lib/chart-format';
 import { bucketRows, shortTime, unitPowerPoints, unitStrips } from '../lib/chart-data';
 import { ChartFrame } from './chart-frame';
 import { axisProps } from './supply-chart';
@@ -48,10 +49,11 @@ export function UnitPowerChart({ schedule }: { schedule: Schedule }) {
         <LineChart data={data} margin={{ top: 4, right: 8, bottom: 0, left: 0 }}>
           <CartesianGrid stroke={chartColors.grid} vertical={false} />
           <XAxis dataKey="time" tickFormatter={shortTime} minTickGap={40} {...axisProps} />
-          <YAxis width={48} {...axisProps} />
-          <Tooltip labelFormatter={(l) => shortTime(String(l))} />
+          <YAxis width={56} tickFormatter={tickNumber} label={axisUnit('kW')} {...axisProps} />
+          <Tooltip labelFormatter={(l) => shortTime(String(l))} formatter={valueWithUnit('kW')} />
+          <Legend wrapperStyle={legendStyle} />
           {ids.map((id, i) => (
-            <Line key={id} type="stepAfter" dataKey={id} stroke={seriesPalette[i % seriesPalette.length]} strokeWidth={1.5} dot={false} isAnimationActive={false} />
+            <Line key={id} type="stepAfter" dataKey={id} name={id} stroke={seriesPalette[i % seriesPalette.length]} strokeWidth={1.5} dot={false} isAnimationActive={false} />
           ))}
         </LineChart>
       </ResponsiveContainer>

@@ -3,6 +3,7 @@ import { Link, useParams, useSearchParams } from 'react-router-dom';
 import type { RunResult } from '@gridwright/shared/run-result';
 import type { SiteSpec } from '@gridwright/shared/site-spec';
 import { AdvisoryNote } from '@/components/advisory-note';
+import { CodeSnippetPanel } from '@/components/code-snippet-panel';
 import { JsonViewer } from '@/components/json-viewer';
 import { PageHeader, Panel } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
@@ -26,6 +27,7 @@ const views = [
   { id: 'schedule', label: 'Step table' },
   { id: 'formulation', label: 'Formulation report' },
   { id: 'spec', label: 'Submitted spec' },
+  { id: 'code', label: 'Call from code' },
   { id: 'deliveries', label: 'Webhook deliveries' },
 ] as const;
 type View = (typeof views)[number]['id'];
@@ -118,6 +120,8 @@ export function RunDetailRoute() {
       <div role="tabpanel" aria-label={views.find((v) => v.id === view)?.label}>
         {view === 'spec' ? (
           spec.isPending ? <Loading /> : spec.error ? <ProblemAlert error={spec.error} /> : <JsonViewer value={spec.data} pointer={pointer} />
+        ) : view === 'code' ? (
+          spec.isPending ? <Loading /> : spec.error ? <ProblemAlert error={spec.error} /> : <CodeSnippetPanel spec={spec.data} />
         ) : view === 'deliveries' ? (
           <RunDeliveries runId={r.id} />
         ) : !result ? (
