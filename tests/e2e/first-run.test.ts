@@ -147,6 +147,30 @@ describe('first run: from a SCADA export to a solved run', () => {
     await expect(page.getByTestId('net-value-note').textContent()).resolves.toMatch(/positive is a net value, negative a net cost/);
   });
 
+  it("reuses an earlier upload and, when asked, keeps the spec's own horizon and takes the file's values for its steps", async () => {
+    await page.goto(`${app.url}/workbench`);
+    const island = exampleSites[0].spec;
+    // A day of the file, from 06:00 local time: the file's values for steps 6 to 29.
+    const horizon = { start: '2027-06-01T06:00:00+01:00', stepMinutes: 60, steps: 24, timeZone: 'Europe/Lisbon' };
+    await page.locator('.cm-content').click();
+    await page.keyboard.press('ControlOrMeta+a');
+    await page.keyboard.insertText(JSON.stringify({ ...island, horizon }, null, 2));
+    await page.getByRole('list', { name: 'Uploaded series' }).getByRole('listitem').filter({ hasText: 'first-run-site' }).getByRole('button', { name: 'Use' }).click();
+    const roles = page.getByTestId('csv-roles');
+    await roles.getByLabel("Set the spec's horizon from the file").uncheck();
+    await roles.getByRole('button', { name: 'Build spec from the file' }).click();
+    // The editor shows only the lines in view, so the built spec is read from the draft it keeps.
+    const draft = () => page.evaluate(() => JSON.parse(localStorage.getItem('gridwright.workbench.draft') ?? 'null'));
+    await expect.poll(async () => (await draft())?.supply?.seriesId ?? '').toMatch(/^ser_/);
+    const built = await draft();
+    expect(built.horizon).toEqual(horizon);
+    // fixtures/first-run-site.csv: site load at 06:00 is 207.4 kW, at 05:00 the next day 188.1 kW.
+    const fixtureLoad = readFileSync(FIXTURE, 'utf8').trim().split('\n').slice(1).map((line) => Number(line.split(';')[2].replace(',', '.')));
+    expect(built.siteLoad.kw).toEqual(fixtureLoad.slice(6, 30));
+    expect(built.siteLoad.kw[0]).toBe(207.4);
+    expect(built.siteLoad.kw.at(-1)).toBe(188.1);
+  });
+
   it('lists each problem once, clears the list when the spec is fixed, and asks before solving a site the check proves infeasible', async () => {
     await page.goto(`${app.url}/workbench`);
     const template = exampleSites.find((e) => e.id === 'grid-electrolyser')!;

@@ -1,11 +1,11 @@
 import { useMemo, useState } from 'react';
 import { ROLE_KIND } from '@gridwright/shared/series-roles';
 import { Button } from '@/components/button';
-import { SelectField, TextField } from '@/components/field';
+import { CheckboxField, SelectField, TextField } from '@/components/field';
 import { ProblemAlert } from '@/components/problem-alert';
 import { formatDateTime } from '@/lib/format';
 import { useDraftSpec, useSeriesList, useUploadSeries, type SeriesRole, type SpecDraft, type UploadedSeries } from '../api';
-import { groupUploads, type SeriesUpload } from '../lib/series-uploads';
+import { groupUploads, keptHorizonWindow, type SeriesUpload } from '../lib/series-uploads';
 
 const ROLE_LABELS: Record<SeriesRole, string> = {
   supply: 'Supply (availability)',
@@ -37,7 +37,7 @@ function UploadSummary({ upload }: { upload: SeriesUpload }) {
     <p className="text-xs text-ash-600" data-testid="csv-horizon">
       {upload.steps > 0 ? (
         <>
-          Sets the horizon: <strong>{upload.steps} steps</strong> of {upload.stepMinutes} min from {formatDateTime(upload.start, upload.timeZone)}
+          The file covers <strong>{upload.steps} steps</strong> of {upload.stepMinutes} min from {formatDateTime(upload.start, upload.timeZone)}
           {upload.timeZone ? <> ({upload.timeZone})</> : <> (offset {upload.start.slice(19) || 'UTC'})</>}
         </>
       ) : (
@@ -59,10 +59,12 @@ export function SpecFromCsv({ editorSpec, onDraft }: { editorSpec: unknown; onDr
   const [timeZone, setTimeZone] = useState('');
   const [pickedKey, setPickedKey] = useState<string | null>(null);
   const [assignments, setAssignments] = useState<Record<string, Assignment>>({});
+  const [horizonFromFile, setHorizonFromFile] = useState(true);
   const uploads = useMemo(() => groupUploads(series.data ?? []), [series.data]);
   // Until the list has refetched, a file just uploaded is known from the upload's own answer.
   const picked = uploads.find((u) => u.key === pickedKey) ?? groupUploads(upload.data ?? []).find((u) => u.key === pickedKey) ?? null;
   const storeIds = storeIdsOf(editorSpec);
+  const keptWindow = picked ? keptHorizonWindow(editorSpec, picked) : null;
 
   const pick = (next: SeriesUpload) => {
     setPickedKey(next.key);
@@ -95,6 +97,7 @@ export function SpecFromCsv({ editorSpec, onDraft }: { editorSpec: unknown; onDr
           return { seriesId: c.id ?? '', role: a.role as SeriesRole, ...(a.role === 'storeDemand' ? { storeId: a.storeId } : {}) };
         }),
         base,
+        ...(!horizonFromFile && keptWindow ? { horizon: keptWindow } : {}),
       },
       { onSuccess: onDraft },
     );
@@ -135,6 +138,18 @@ export function SpecFromCsv({ editorSpec, onDraft }: { editorSpec: unknown; onDr
         <div className="space-y-2 rounded-md border border-ash-200 bg-ash-25 p-2" data-testid="csv-roles">
           <p className="text-xs font-medium text-ash-800">{picked.name}</p>
           <UploadSummary upload={picked} />
+          <CheckboxField
+            label="Set the spec's horizon from the file"
+            checked={horizonFromFile || !keptWindow}
+            disabled={!keptWindow}
+            onChange={(e) => setHorizonFromFile(e.target.checked)}
+          />
+          {!keptWindow && <p className="text-[11px] text-ash-500">The spec in the editor has no horizon of {picked.stepMinutes}-minute steps to keep.</p>}
+          {!horizonFromFile && keptWindow && (
+            <p className="text-[11px] text-ash-500">
+              Keeps the editor's {keptWindow.steps} steps from {keptWindow.start}; the file must cover them.
+            </p>
+          )}
           <ul className="space-y-1.5" aria-label="Column roles">
             {picked.columns.map((c) => {
               const id = c.id ?? '';
@@ -170,7 +185,7 @@ export function SpecFromCsv({ editorSpec, onDraft }: { editorSpec: unknown; onDr
           <Button variant="primary" size="sm" onClick={build} disabled={assigned.length === 0 || draft.isPending}>
             {draft.isPending ? 'Building…' : 'Build spec from the file'}
           </Button>
-          <p className="text-[11px] text-ash-500">Into the spec in the editor: its units, storage and settings stay; the horizon and the chosen fields come from the file.</p>
+          <p className="text-[11px] text-ash-500">Into the spec in the editor: its units, storage and settings stay; the chosen fields come from the file.</p>
           <ProblemAlert error={draft.error} />
           {draft.data && draft.data.notes.length > 0 && (
             <ul className="list-disc space-y-0.5 pl-4 text-xs text-amber-900" aria-label="Notes on the built spec">

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { UploadedSeries } from '../api';
-import { groupUploads } from './series-uploads';
+import { groupUploads, keptHorizonWindow } from './series-uploads';
 
 const column = (over: Partial<UploadedSeries>): UploadedSeries => ({
   id: 'ser_x',
@@ -31,5 +31,20 @@ describe('groupUploads', () => {
   it('offers no steps for columns that step differently', () => {
     const [mixed] = groupUploads([column({ id: 'a', uploadId: 'u' }), column({ id: 'b', uploadId: 'u', stepMinutes: 15 })]);
     expect(mixed.steps).toBe(0);
+  });
+});
+
+describe('keptHorizonWindow', () => {
+  const [upload] = groupUploads([column({ uploadId: 'u' })]);
+
+  it("takes the spec's own start and steps when it steps as the file does", () => {
+    const spec = { horizon: { start: '2027-06-01T06:00:00+01:00', stepMinutes: 60, steps: 24, timeZone: 'Europe/Lisbon' } };
+    expect(keptHorizonWindow(spec, upload)).toEqual({ start: '2027-06-01T06:00:00+01:00', steps: 24 });
+  });
+
+  it('keeps nothing from a spec of another step length or without a horizon', () => {
+    expect(keptHorizonWindow({ horizon: { start: '2027-06-01T06:00:00+01:00', stepMinutes: 15, steps: 96 } }, upload)).toBeNull();
+    expect(keptHorizonWindow({}, upload)).toBeNull();
+    expect(keptHorizonWindow(null, upload)).toBeNull();
   });
 });

@@ -47,3 +47,14 @@ export function groupUploads(series: UploadedSeries[]): SeriesUpload[] {
     };
   });
 }
+
+/**
+ * The window of an upload to build from when the spec keeps its own horizon: its start and steps,
+ * taken from the file. Null when the spec has no horizon to keep, or one of another step length
+ * (the file's steps would then span another stretch of time).
+ */
+export function keptHorizonWindow(spec: unknown, upload: SeriesUpload): { start: string; steps: number } | null {
+  const horizon = (spec as { horizon?: { start?: unknown; steps?: unknown; stepMinutes?: unknown } } | null)?.horizon;
+  if (typeof horizon?.start !== 'string' || typeof horizon.steps !== 'number') return null;
+  return horizon.stepMinutes === upload.stepMinutes ? { start: horizon.start, steps: horizon.steps } : null;
+}
