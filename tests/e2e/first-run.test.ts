@@ -6,11 +6,12 @@
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { exampleSites } from '@gridwright/shared/examples';
 import { ActionCounter } from './actions';
-import { launchBrowser, screenshot, type Browser } from './browser';
-import { startConsoleApp, type ConsoleApp } from './console-app';
+import { screenshot, type Browser } from './browser';
+import type { ConsoleApp } from './console-app';
+import { consoleInBrowser, demoAccount, setEditorText } from './console-in-browser';
 
 const FIXTURE = path.resolve(import.meta.dirname, 'fixtures/first-run-site.csv');
 const ARTIFACTS = path.resolve(import.meta.dirname, '../../test-artifacts');
@@ -22,16 +23,9 @@ let app: ConsoleApp;
 let browser: Browser;
 let page: Page;
 let runId = '';
-const pageErrors: string[] = [];
-
-const account = (role: string) => {
-  const a = app.demo.accounts.find((x) => x.role === role);
-  if (!a) throw new Error(`no demo ${role}`);
-  return a;
-};
 
 async function signIn(role: string) {
-  const { email, password } = account(role);
+  const { email, password } = demoAccount(app, role);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -49,19 +43,9 @@ async function settled() {
 }
 
 describe('first run: from a SCADA export to a solved run', () => {
-  beforeAll(async () => {
-    app = await startConsoleApp();
-    browser = await launchBrowser();
-    page = browser.page;
-    page.on('pageerror', (e) => {
-      pageErrors.push(e.message);
-    });
-  }, 120_000);
-
-  afterAll(async () => {
-    expect(pageErrors).toEqual([]);
-    await browser?.close();
-    await app?.close();
+  const session = consoleInBrowser();
+  beforeAll(() => {
+    ({ app, browser, page } = session);
   });
 
   it(`takes the owner of the demo tenant from sign-in to a solved run, its charts, a CSV export and a code snippet in at most ${MAX_ACTIONS} actions`, async () => {
@@ -69,7 +53,7 @@ describe('first run: from a SCADA export to a solved run', () => {
     const act = new ActionCounter();
     await page.setViewportSize(WIDTHS.desktop);
     await page.goto(`${app.url}/`);
-    const { email, password } = account('owner');
+    const { email, password } = demoAccount(app, 'owner');
     await act.type(page.getByLabel('E-mail'), email, 'e-mail');
     await act.type(page.getByLabel('Password'), password, 'password');
     await act.click(page.getByRole('button', { name: 'Sign in' }), 'Sign in');
@@ -152,9 +136,7 @@ describe('first run: from a SCADA export to a solved run', () => {
     const island = exampleSites[0].spec;
     // A day of the file, from 06:00 local time: the file's values for steps 6 to 29.
     const horizon = { start: '2027-06-01T06:00:00+01:00', stepMinutes: 60, steps: 24, timeZone: 'Europe/Lisbon' };
-    await page.locator('.cm-content').click();
-    await page.keyboard.press('ControlOrMeta+a');
-    await page.keyboard.insertText(JSON.stringify({ ...island, horizon }, null, 2));
+    await setEditorText(page, JSON.stringify({ ...island, horizon }, null, 2));
     await page.getByRole('list', { name: 'Uploaded series' }).getByRole('listitem').filter({ hasText: 'first-run-site' }).getByRole('button', { name: 'Use' }).click();
     const roles = page.getByTestId('csv-roles');
     await roles.getByLabel("Set the spec's horizon from the file").uncheck();
@@ -177,11 +159,7 @@ describe('first run: from a SCADA export to a solved run', () => {
     await page.getByLabel('Demo site').selectOption(template.id);
     await page.getByRole('button', { name: 'Load template' }).click();
     await page.getByTestId('editor-problems').filter({ hasText: 'No problems found.' }).waitFor();
-    const setText = async (value: unknown) => {
-      await page.locator('.cm-content').click();
-      await page.keyboard.press('ControlOrMeta+a');
-      await page.keyboard.insertText(JSON.stringify(value, null, 2));
-    };
+    const setText = (value: unknown) => setEditorText(page, JSON.stringify(value, null, 2));
     const problems = page.getByRole('list', { name: 'Problems in the spec' });
 
     // One problem found by the console's own check, by Check and by the refused Solve: listed once.
