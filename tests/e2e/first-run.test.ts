@@ -252,6 +252,7 @@ describe('first run: from a SCADA export to a solved run', () => {
       { role: 'owner', name: 'webhooks', path: '/webhooks', ready: () => page.getByRole('heading', { name: 'Webhooks' }).waitFor() },
       { role: 'owner', name: 'export-profiles', path: '/export-profiles', ready: () => page.getByRole('heading', { name: 'CSV export profiles' }).waitFor() },
       { role: 'owner', name: 'usage', path: '/usage', ready: () => page.getByTestId('usage-charts').locator('svg.recharts-surface').first().waitFor() },
+      { role: 'owner', name: 'billing', path: '/billing', ready: () => page.getByRole('heading', { name: 'Billing' }).waitFor() },
       { role: 'owner', name: 'team', path: '/team', ready: () => page.getByRole('heading', { name: 'Team' }).waitFor() },
       { role: 'owner', name: 'activity', path: '/activity', ready: () => page.getByRole('heading').first().waitFor() },
       { role: 'owner', name: 'account', path: '/account', ready: () => page.getByRole('heading').first().waitFor() },
