@@ -1,38 +1,13 @@
 import { useVirtualizer } from '@tanstack/react-virtual';
 import { useMemo, useRef } from 'react';
 import type { Schedule } from '@gridwright/shared/run-result';
+import type { SiteSpec } from '@gridwright/shared/site-spec';
 import { formatNumber } from '@/lib/format';
 import { shortTime } from '../lib/chart-data';
-
-interface Column {
-  key: string;
-  label: string;
-  value: (step: number) => number;
-  onOff?: boolean;
-}
-
-function columnsFor(schedule: Schedule): Column[] {
-  const cols: Column[] = [
-    { key: 'used', label: 'Supply used kW', value: (t) => schedule.supplyUsedKw[t] },
-    { key: 'curt', label: 'Curtailed kW', value: (t) => schedule.curtailedKw[t] },
-    { key: 'unserved', label: 'Unserved kW', value: (t) => schedule.unservedKw[t] },
-    { key: 'imp', label: 'Import kW', value: (t) => schedule.grid.importKw[t] },
-    { key: 'exp', label: 'Export kW', value: (t) => schedule.grid.exportKw[t] },
-  ];
-  for (const [id, u] of Object.entries(schedule.units)) {
-    cols.push({ key: `${id}:on`, label: `${id} on`, value: (t) => u.on[t], onOff: true });
-    cols.push({ key: `${id}:p`, label: `${id} kW`, value: (t) => u.powerKw[t] });
-  }
-  for (const [id, s] of Object.entries(schedule.storage)) {
-    cols.push({ key: `${id}:c`, label: `${id} charge kW`, value: (t) => s.chargeKw[t] });
-    cols.push({ key: `${id}:d`, label: `${id} discharge kW`, value: (t) => s.dischargeKw[t] });
-    cols.push({ key: `${id}:soc`, label: `${id} SOC kWh`, value: (t) => s.socKwh[t] });
-  }
-  return cols;
-}
+import { stepColumns } from '../lib/step-columns';
 
 const ROW = 26;
-const fmt = (n: number | undefined) => (n === undefined ? '—' : formatNumber(n));
+const fmt = (n: number | null | undefined, digits = 2) => (n === null || n === undefined ? '—' : formatNumber(n, digits));
 
 // Every track has a fixed minimum and the header and the rows are grids of one template in one box of
 // one width, so a column's header sits over its values however long the labels (they are cut, with
@@ -42,8 +17,8 @@ const START_TRACK = '8.5rem';
 const VALUE_TRACK_REM = 8;
 
 /** Every step of the schedule; only the rows in view are rendered, so a year at 15 minutes scrolls smoothly. */
-export function ScheduleTable({ schedule }: { schedule: Schedule }) {
-  const columns = useMemo(() => columnsFor(schedule), [schedule]);
+export function ScheduleTable({ schedule, spec }: { schedule: Schedule; spec?: SiteSpec }) {
+  const columns = useMemo(() => stepColumns(schedule, spec), [schedule, spec]);
   const parent = useRef<HTMLDivElement>(null);
   const rows = schedule.timestamps.length;
   const virtual = useVirtualizer({ count: rows, getScrollElement: () => parent.current, estimateSize: () => ROW, overscan: 12 });
@@ -78,9 +53,10 @@ export function ScheduleTable({ schedule }: { schedule: Schedule }) {
                 <span role="cell" className="min-w-0 truncate px-2 py-1">{shortTime(schedule.timestamps[item.index])}</span>
                 {columns.map((c) => {
                   const v = c.value(item.index);
+                  const on = v !== null && v >= 0.5;
                   return (
-                    <span role="cell" key={c.key} className={`min-w-0 truncate px-2 py-1 text-right ${c.onOff && v >= 0.5 ? 'font-semibold text-kiln-700' : ''}`}>
-                      {c.onOff ? (v >= 0.5 ? 'on' : 'off') : fmt(v)}
+                    <span role="cell" key={c.key} className={`min-w-0 truncate px-2 py-1 text-right ${c.onOff && on ? 'font-semibold text-kiln-700' : ''}`}>
+                      {c.onOff ? (on ? 'on' : 'off') : fmt(v, c.digits)}
                     </span>
                   );
                 })}

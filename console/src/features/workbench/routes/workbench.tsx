@@ -14,6 +14,7 @@ import { CheckReport } from '../components/check-report';
 import { FollowedRun } from '../components/followed-run';
 import { SpecEditor, type ProblemCounts } from '../components/spec-editor';
 import { SpecFromCsv } from '../components/spec-from-csv';
+import { UnitCurvesPanel } from '../components/unit-curves-panel';
 import { formatSpec } from '../lib/format-spec';
 import type { PointerIssue } from '../lib/spec-diagnostics';
 
@@ -159,6 +160,9 @@ export function WorkbenchRoute() {
                 Load template
               </Button>
             </div>
+          </Panel>
+          <Panel title="Unit price curves">
+            <UnitCurvesPanel spec={parsed.value} />
           </Panel>
         </div>
       </div>
