@@ -27,8 +27,8 @@ const MAX_REPORTED_ERRORS = 100;
  */
 export const MIN_POWER = 1e-6;
 export const MAX_POWER = 1e9;
-const MIN_PRICE = 1e-9;
-const MAX_PRICE = 1e6;
+export const MIN_PRICE = 1e-9;
+export const MAX_PRICE = 1e6;
 
 /**
  * The named parts of the spec, as `openapi/openapi.yaml` lists them under `components/schemas`

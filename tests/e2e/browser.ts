@@ -32,7 +32,9 @@ export async function launchBrowser(): Promise<Browser> {
   };
 }
 
+/** `name` may name a folder too (`pages/runs-desktop`). */
 export async function screenshot(page: Page, name: string) {
-  mkdirSync(screenshotDir, { recursive: true });
-  await page.screenshot({ path: path.join(screenshotDir, `${name}.png`), fullPage: true });
+  const file = path.join(screenshotDir, `${name}.png`);
+  mkdirSync(path.dirname(file), { recursive: true });
+  await page.screenshot({ path: file, fullPage: true });
 }

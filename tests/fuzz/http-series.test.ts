@@ -86,8 +86,8 @@ describe('POST /v1/series under fuzzing', () => {
         const res = await request(t.app).post('/v1/series').set('Authorization', `Bearer ${apiKey}`).attach('file', Buffer.from(csv), { filename: 'm.csv', contentType: 'text/csv' });
         expectCleanRefusal(res, csv);
         if (res.status === 201) {
-          const [stored] = await t.ctx.db.query(`SELECT values_kw FROM series WHERE id = $1`, [res.body.items[0].id]);
-          expect(stored.values_kw.filter((kw: number) => kwValueRefusal(kw) !== null), csv).toEqual([]);
+          const [stored] = await t.ctx.db.query(`SELECT step_values FROM series WHERE id = $1`, [res.body.items[0].id]);
+          expect(stored.step_values.filter((kw: number) => kwValueRefusal(kw) !== null), csv).toEqual([]);
         } else {
           expect(res.status, csv).toBe(400);
           expect(res.body.errors[0].message, csv).toMatch(/^row \d+: column "pv \[\w+\]"/);

@@ -8,6 +8,7 @@ import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputGuards1780000500000 } from '../../api/src/db/migrations/1780000500000-input-guards';
+import { SeriesKinds1780000710000 } from '../../api/src/db/migrations/1780000710000-series-kinds';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { updateExportProfile } from '../../api/src/services/export-profiles';
 import { changeMemberRole, inviteMember } from '../../api/src/services/members';
@@ -206,7 +207,7 @@ describe('API3 behind the routes: the services and the database refuse what a bo
 
   it('refuses, in the database, each value a service should have refused', async () => {
     const [seriesOfB] = await t.ctx.db.query(
-      `INSERT INTO series (tenant_id, name, source_column, source_unit, start, start_offset, step_minutes, steps, values_kw, source_rows, fill_policy)
+      `INSERT INTO series (tenant_id, name, source_column, source_unit, start, start_offset, step_minutes, steps, step_values, source_rows, fill_policy)
        VALUES ($1, 'b', 'pv', 'kW', now(), '+00:00', 60, 2, '[1, 2]', 2, 'none') RETURNING id`,
       [b.tenantId],
     );
@@ -214,7 +215,7 @@ describe('API3 behind the routes: the services and the database refuse what a bo
     const [endpointOfB] = await t.ctx.db.query(`INSERT INTO webhook_endpoints (tenant_id, url, events, secret) VALUES ($1, 'https://93.184.216.34/', '{run.succeeded}', 's') RETURNING id`, [b.tenantId]);
     const series = (values: string, steps = 2) =>
       t.ctx.db.query(
-        `INSERT INTO series (tenant_id, name, source_column, source_unit, start, start_offset, step_minutes, steps, values_kw, source_rows, fill_policy)
+        `INSERT INTO series (tenant_id, name, source_column, source_unit, start, start_offset, step_minutes, steps, step_values, source_rows, fill_policy)
          VALUES ($1, 'a', 'pv', 'kW', now(), '+00:00', 60, $2, $3, 2, 'none')`,
         [a.tenantId, steps, values],
       );
@@ -247,12 +248,16 @@ describe('API3 behind the routes: the services and the database refuse what a bo
 
   it('cleans privileges planted before the guards existed: unknown scopes dropped and their keys revoked, bad overrides removed', async () => {
     const guards = new InputGuards1780000500000();
+    // The guards' series constraint names a column a later migration renamed: that one goes down first and back up last.
+    const seriesKinds = new SeriesKinds1780000710000();
     const q = t.ctx.db.createQueryRunner();
     try {
+      await seriesKinds.down(q);
       await guards.down(q);
       const [key] = await q.query(`INSERT INTO api_keys (tenant_id, name, prefix, secret_hash, scopes) VALUES ($1, 'planted', 'cccccccccccc', 'h', '{runs:read,admin}') RETURNING id`, [a.tenantId]);
       await q.query(`UPDATE tenants SET limit_overrides = '{"monthlyRuns": "unlimited", "maxUnits": 3, "bogus": 1, "requestsPerSecond": 0}' WHERE id = $1`, [a.tenantId]);
       await guards.up(q);
+      await seriesKinds.up(q);
       const [cleaned] = await q.query(`SELECT scopes, revoked_at IS NOT NULL AS revoked FROM api_keys WHERE id = $1`, [key.id]);
       expect(cleaned).toEqual({ scopes: ['runs:read'], revoked: true });
       const [tenant] = await q.query(`SELECT limit_overrides FROM tenants WHERE id = $1`, [a.tenantId]);

@@ -30,7 +30,8 @@ export const permissions = {
   'members.manage': { description: 'Invite members, change roles, remove members', roles: ['owner', 'operator'], keyScope: null },
   'usage.read': { description: 'Read usage against the quota', roles: EVERYONE, keyScope: 'runs:read' },
   'audit.read': { description: "Read the tenant's audit log", roles: ['owner', 'operator'], keyScope: null },
-  'tenant.read': { description: 'Read the tenant, its plan and limits; list plans', roles: EVERYONE, keyScope: 'runs:read' },
+  'tenant.read': { description: 'Read the tenant, its plan and limits', roles: EVERYONE, keyScope: 'runs:read' },
+  'plans.read': { description: 'List the plans on offer and their limits', roles: EVERYONE, keyScope: 'runs:read' },
   'plan.manage': { description: "Change the tenant's plan (with billing on, through its subscription)", roles: ['owner', 'operator'], keyScope: null },
   'billing.read': { description: "Read the tenant's billing: subscription, card on file (brand and last digits), invoices, the next invoice", roles: ['owner', 'operator'], keyScope: null },
   'billing.manage': { description: 'Buy a plan, cancel or resume the subscription', roles: ['owner'], keyScope: null },
@@ -41,11 +42,15 @@ export const permissions = {
 export type Action = keyof typeof permissions;
 export const ACTIONS = Object.keys(permissions) as Action[];
 
+/** Actions about the person or the service's catalogue, not about any one tenant's data. */
+const TENANT_FREE: ReadonlySet<Action> = new Set<Action>(['account.self', 'plans.read']);
+
 /**
  * Whether an operator must choose a tenant (X-Tenant-Id) first. Operator-only actions are about the
- * service itself and `account.self` about the person, so neither needs one.
+ * service itself, `account.self` about the person and `plans.read` about what the service offers, so
+ * none of them needs one.
  */
-export const needsTenant = (action: Action) => action !== 'account.self' && !permissions[action].roles.every((r) => r === 'operator');
+export const needsTenant = (action: Action) => !TENANT_FREE.has(action) && !permissions[action].roles.every((r) => r === 'operator');
 
 export function isAction(name: string): name is Action {
   return Object.prototype.hasOwnProperty.call(permissions, name);

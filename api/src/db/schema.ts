@@ -29,6 +29,7 @@ import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues'
 import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
 import { Billing1780000760000 } from './migrations/1780000760000-billing';
 import { RatePointReservations1780000530000 } from './migrations/1780000530000-rate-point-reservations';
+import { SeriesKinds1780000710000 } from './migrations/1780000710000-series-kinds';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -44,5 +45,6 @@ export const migrations: Constructor[] = [
   InputGuards1780000500000,
   CredentialChangeNotices1780000520000, RatePointReservations1780000530000,
   FairQueues1780000600000,
+  SeriesKinds1780000710000,
   Billing1780000760000,
 ];

@@ -1,7 +1,8 @@
 import type { Request, Router } from 'express';
-import type { RunStatus } from '@gridwright/shared/run-result';
+import type { RunResult, RunStatus } from '@gridwright/shared/run-result';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
+import type { Run } from '../db/entities/run';
 import { strictRouter } from '../lib/strict-router';
 import { cancelRun } from '../runs/cancellation';
 import { delimiterNamed } from '../lib/csv-delimiters';
@@ -12,6 +13,9 @@ import { submitRun } from '../runs/submission';
 import { runSummary } from '../runs/view';
 import { parseIdempotencyKey } from '../services/idempotency';
 import { deliveryView } from '../services/webhooks';
+
+/** A list shows each finished run's objective, so runs compare at a glance without their schedules. */
+const listItem = (run: Run) => ({ ...runSummary(run), ...(run.result ? { objective: (run.result as RunResult).objective } : {}) });
 
 const actorOf = (req: Request) => {
   const p = req.principal!;
@@ -61,7 +65,7 @@ export function runsRouter(ctx: AppContext): Router {
       const next = queryString({ limit, status: q.status, createdAfter: q.createdAfter, createdBefore: q.createdBefore, cursor: nextCursor });
       res.setHeader('Link', `</v1/runs?${next}>; rel="next"`);
     }
-    res.json({ items: runs.map(runSummary), nextCursor });
+    res.json({ items: runs.map(listItem), nextCursor });
   });
 
   r.get('/v1/runs/:runId', auth, authorize('runs.read'), async (req, res) => {

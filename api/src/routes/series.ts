@@ -6,7 +6,8 @@ import { strictRouter } from '../lib/strict-router';
 import { delimiterNamed } from '../lib/csv-delimiters';
 import { HttpProblem, validationProblem } from '../lib/problem';
 import { getSeries, listSeries, seriesDetail, seriesSummary, uploadSeries } from '../services/series';
-import type { PowerUnit } from '../services/series-csv';
+import type { PowerUnit } from '../services/series-columns';
+import { draftSpecFromSeries } from '../services/series-spec-draft';
 import type { FillPolicy } from '../services/series-resample';
 
 /**
@@ -44,7 +45,7 @@ export function seriesRouter(ctx: AppContext): Router {
   r.post('/v1/series', auth, authorize('series.create'), singleCsvFile(ctx), async (req, res) => {
     if (!req.file) throw validationProblem([{ pointer: '/file', message: 'a multipart part named "file" with the CSV is required' }]);
     const q = req.query as Record<string, string | undefined>;
-    const saved = await uploadSeries(ctx, req.principal!.tenantId, req.file, {
+    const upload = await uploadSeries(ctx, req.principal!.tenantId, req.file, {
       stepMinutes: q.stepMinutes ? Number(q.stepMinutes) : undefined,
       timezone: q.timezone,
       timestampFormat: q.timestampFormat,
@@ -55,7 +56,15 @@ export function seriesRouter(ctx: AppContext): Router {
       columns: q.columns ? q.columns.split(',') : undefined,
       name: q.name,
     });
-    res.status(201).location(`/v1/series/${saved[0].id}`).json({ items: saved.map(seriesSummary) });
+    res
+      .status(201)
+      .location(`/v1/series/${upload.series[0].id}`)
+      .json({ items: upload.series.map(seriesSummary), uploadId: upload.uploadId, horizon: upload.horizon });
+  });
+
+  r.post('/v1/series/spec-draft', auth, authorize('series.read'), async (req, res) => {
+    const { assignments, horizon, base } = req.body;
+    res.json(await draftSpecFromSeries(ctx, req.principal!.tenantId, { assignments, horizon, base }));
   });
 
   r.get('/v1/series', auth, authorize('series.read'), async (req, res) => {

@@ -10,7 +10,7 @@ export function tenantRouter(ctx: AppContext): Router {
   const r = strictRouter();
   const auth = authenticate(ctx);
 
-  r.get('/v1/plans', auth, authorize('tenant.read'), async (_req, res) => {
+  r.get('/v1/plans', auth, authorize('plans.read'), async (_req, res) => {
     res.json({ items: (await listPlans(ctx)).map(planView) });
   });
 

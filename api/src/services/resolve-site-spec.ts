@@ -38,6 +38,9 @@ async function lookupSupplySeries(manager: EntityManager, tenantId: string, spec
   const pointer = '/supply/seriesId';
   const series = await manager.findOneBy(Series, { id: spec.supply.seriesId, tenantId });
   if (!series) return { ok: false, errors: [{ pointer, message: `no series "${spec.supply.seriesId}" in this tenant` }] };
+  if (series.kind !== 'power') {
+    return { ok: false, errors: [{ pointer, message: `the series "${series.name}" holds a ${series.kind} (${series.unit}); the supply is a power in kW` }] };
+  }
   if (series.stepMinutes !== spec.horizon.stepMinutes) {
     return { ok: false, errors: [{ pointer, message: `the series has ${series.stepMinutes}-minute steps; horizon.stepMinutes is ${spec.horizon.stepMinutes}` }] };
   }
@@ -52,7 +55,7 @@ async function lookupSupplySeries(manager: EntityManager, tenantId: string, spec
       errors: [{ pointer, message: `the series covers ${DateTime.fromJSDate(series.start).toUTC().toISO()} to ${seriesEnd} in ${series.stepMinutes}-minute steps; it does not cover every step of the horizon` }],
     };
   }
-  const availableKw = series.valuesKw.slice(first, last);
+  const availableKw = series.values.slice(first, last);
   // Series stored before uploads were held to the spec's limits may hold values a spec may not.
   const bad = availableKw.findIndex((kw) => typeof kw !== 'number' || kwValueRefusal(kw) !== null);
   if (bad >= 0) {

@@ -2,20 +2,20 @@ import { parse } from 'csv-parse/sync';
 import { DateTime } from 'luxon';
 import { CSV_DELIMITERS } from '../lib/csv-delimiters';
 import { instantInRange } from '../lib/instants';
-import { kwValueRefusal } from '../lib/kw-values';
 import { HttpProblem, type ProblemFieldError } from '../lib/problem';
+import { columnQuantity, seriesValueRefusal, timeZoneFromHeader, type ColumnQuantity, type PowerUnit } from './series-columns';
 
 /**
  * Reads a SCADA / historian CSV export: a timestamp column and value columns. Detects the
- * delimiter and a decimal comma, takes each column's unit from its header (`pv [kW]`, `pv (W)`,
- * `pv_MW`) unless one is given, and turns every timestamp into an instant: with an offset as
- * written, without one in the named IANA zone, where a repeated local hour (clocks going back)
- * is read in order and a skipped local time (clocks going forward) is an error.
+ * delimiter and a decimal comma, takes each column's quantity and unit from its header
+ * (series-columns.ts; `unit` stands for the unit of every power column), and turns every
+ * timestamp into an instant: with an offset as written, without one in the IANA zone the request
+ * or the timestamp column's header names (`time (Europe/Vienna)`), where a repeated local hour
+ * (clocks going back) is read in order and a skipped local time (clocks going forward) is an error.
  */
-export type PowerUnit = 'W' | 'kW' | 'MW';
-
 export interface CsvReadOptions {
   delimiter?: string;
+  /** The IANA zone of timestamps without an offset; default: the one the timestamp column's header names. */
   timezone?: string;
   /** A luxon format for local timestamps that are not ISO 8601, e.g. `dd.MM.yyyy HH:mm`. */
   timestampFormat?: string;
@@ -28,13 +28,13 @@ export interface Sample {
   /** 1-based line number in the file (the header is line 1). */
   row: number;
   at: number;
-  /** null: the cell was empty. */
-  valueKw: number | null;
+  /** In the column's stored unit (kW, per kWh, the rate's own); null: the cell was empty. */
+  value: number | null;
 }
 
 export interface CsvColumn {
   name: string;
-  unit: PowerUnit;
+  quantity: ColumnQuantity;
   samples: Sample[];
 }
 
@@ -43,12 +43,13 @@ export interface CsvRead {
   decimalComma: boolean;
   /** The offset of the first timestamp, e.g. `+01:00`, kept for the series' own start. */
   firstOffset: string;
+  /** The IANA zone local timestamps were read in, or null when every timestamp carried its offset. */
+  timeZone: string | null;
   timestampColumn: string;
   columns: CsvColumn[];
 }
 
 const MAX_REPORTED = 20;
-const TO_KW: Record<PowerUnit, number> = { W: 0.001, kW: 1, MW: 1000 };
 
 export function detectDelimiter(headerLine: string): string {
   let best = ',';
@@ -61,13 +62,6 @@ export function detectDelimiter(headerLine: string): string {
     }
   }
   return best;
-}
-
-export function unitFromHeader(header: string): PowerUnit | null {
-  const m = /(?:\[|\(|[\s_.-]|^)(w|kw|mw)\]?\)?\s*$/i.exec(header.trim());
-  if (!m) return null;
-  const u = m[1].toLowerCase();
-  return u === 'w' ? 'W' : u === 'kw' ? 'kW' : 'MW';
 }
 
 const COMMA_DECIMAL = /^[+-]?\d{1,3}(\.\d{3})*,\d+$|^[+-]?\d+,\d+$/;
@@ -106,16 +100,22 @@ export function readSeriesCsv(file: Buffer, opts: CsvReadOptions): CsvRead {
   });
   if (!valueIndexes.length) throw problem([{ pointer: '/file', message: 'has no value column' }], 'The file has only a timestamp column.');
 
-  const units = valueNames.map((name) => {
-    const unit = opts.unit ?? unitFromHeader(name);
-    if (!unit) {
+  const quantities = valueNames.map((name) => {
+    const quantity = columnQuantity(name, opts.unit);
+    if (!quantity) {
       throw problem(
-        [{ pointer: '/unit', message: `column "${name}" names no unit; add [W], [kW] or [MW] to the header or pass unit` }],
+        [
+          {
+            pointer: '/unit',
+            message: `column "${name}" names no unit; add [W], [kW] or [MW] for a power, [EUR/kWh] or [EUR/MWh] for a price, or [kg/h] (any product per hour) for a rate to the header, or pass unit`,
+          },
+        ],
         'A value column has no unit.',
       );
     }
-    return unit;
+    return quantity;
   });
+  const timeZone = opts.timezone ?? timeZoneFromHeader(timestampColumn);
 
   const body = records.slice(1);
   const cells = body.flatMap((r) => valueIndexes.map((i) => r.record[i] ?? ''));
@@ -127,7 +127,7 @@ export function readSeriesCsv(file: Buffer, opts: CsvReadOptions): CsvRead {
   let previous = -Infinity;
   for (const [k, r] of body.entries()) {
     const row = r.info.lines;
-    const at = readTimestamp(r.record[tsIndex] ?? '', previous, opts);
+    const at = readTimestamp(r.record[tsIndex] ?? '', previous, { ...opts, timezone: timeZone ?? undefined });
     if (typeof at === 'string') {
       errors.push(rowError(row, at));
       instants.push(NaN);
@@ -139,35 +139,36 @@ export function readSeriesCsv(file: Buffer, opts: CsvReadOptions): CsvRead {
     instants.push(at.ms);
   }
 
-  const columns: CsvColumn[] = valueNames.map((name, c) => ({ name, unit: units[c], samples: [] }));
+  const columns: CsvColumn[] = valueNames.map((name, c) => ({ name, quantity: quantities[c], samples: [] }));
   for (const [k, r] of body.entries()) {
     const row = r.info.lines;
     for (const [c, i] of valueIndexes.entries()) {
       const raw = (r.record[i] ?? '').trim();
-      let valueKw: number | null = null;
+      const { kind, sourceUnit, unit, factor } = quantities[c];
+      let value: number | null = null;
       if (raw !== '') {
         const normalised = decimalComma ? raw.replace(/\./g, '').replace(',', '.') : raw;
-        const value = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(normalised) ? Number(normalised) : NaN;
-        if (!Number.isFinite(value)) {
+        const written = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(normalised) ? Number(normalised) : NaN;
+        if (!Number.isFinite(written)) {
           errors.push(rowError(row, `column "${valueNames[c]}": "${raw}" is not a number`));
           continue;
         }
-        if (value < 0) {
-          errors.push(rowError(row, `column "${valueNames[c]}": ${raw} is negative; availability is at least 0`));
+        if (written < 0 && kind === 'power') {
+          errors.push(rowError(row, `column "${valueNames[c]}": ${raw} is negative; a power per step is at least 0`));
           continue;
         }
-        valueKw = value * TO_KW[units[c]];
-        const refusal = kwValueRefusal(valueKw);
+        value = written * factor;
+        const refusal = seriesValueRefusal(kind, value, unit);
         if (refusal) {
-          errors.push(rowError(row, `column "${valueNames[c]}": ${raw} ${units[c]} (${valueKw} kW) ${refusal}`));
+          errors.push(rowError(row, `column "${valueNames[c]}": ${raw} ${sourceUnit}${factor === 1 ? '' : ` (${value} ${unit})`} ${refusal}`));
           continue;
         }
       }
-      columns[c].samples.push({ row, at: instants[k], valueKw });
+      columns[c].samples.push({ row, at: instants[k], value });
     }
   }
   if (errors.length) throw problem(errors, `${errors.length} row${errors.length === 1 ? '' : 's'} cannot be read: ${errors.slice(0, 3).map((e) => e.message).join('; ')}`);
-  return { delimiter, decimalComma, firstOffset, timestampColumn, columns };
+  return { delimiter, decimalComma, firstOffset, timeZone, timestampColumn, columns };
 }
 
 const HAS_OFFSET = /(Z|[+-]\d{2}(:?\d{2})?)$/i;

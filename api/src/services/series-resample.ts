@@ -15,7 +15,7 @@ export type FillPolicy = 'none' | 'zero' | 'previous' | 'linear';
 export interface Resampled {
   startMs: number;
   stepMinutes: number;
-  valuesKw: number[];
+  values: number[];
   filled: FilledRange[];
 }
 
@@ -54,8 +54,8 @@ export function resample(samples: Sample[], opts: { stepMinutes: number; fill: F
     const next = samples[i + 1];
     const span = next ? next.at - s.at : typical;
     const holdTo = s.at + (span > maxHold ? typical : span);
-    held.push({ from: s.at, to: holdTo, value: s.valueKw });
-    if (s.valueKw === null) missing.push({ pointer: '/file', message: `row ${s.row}: column "${opts.column}" has no value` });
+    held.push({ from: s.at, to: holdTo, value: s.value });
+    if (s.value === null) missing.push({ pointer: '/file', message: `row ${s.row}: column "${opts.column}" has no value` });
     if (next && holdTo < next.at) {
       held.push({ from: holdTo, to: next.at, value: null });
       missing.push({
@@ -119,7 +119,7 @@ export function resample(samples: Sample[], opts: { stepMinutes: number; fill: F
   return { startMs, stepMinutes: opts.stepMinutes, ...fillMissing(values, opts.fill) };
 }
 
-function fillMissing(values: (number | null)[], policy: FillPolicy): { valuesKw: number[]; filled: FilledRange[] } {
+function fillMissing(values: (number | null)[], policy: FillPolicy): { values: number[]; filled: FilledRange[] } {
   const filled: FilledRange[] = [];
   const out = values.slice();
   for (let k = 0; k < out.length; k++) {
@@ -137,5 +137,5 @@ function fillMissing(values: (number | null)[], policy: FillPolicy): { valuesKw:
     filled.push({ fromStep: k, toStep: end, policy });
     k = end;
   }
-  return { valuesKw: out.map((v) => Math.round((v as number) * 1e6) / 1e6), filled };
+  return { values: out.map((v) => Math.round((v as number) * 1e6) / 1e6), filled };
 }

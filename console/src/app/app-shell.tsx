@@ -1,10 +1,12 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useEffect } from 'react';
 import { NavLink, Navigate, Outlet, useLocation, useNavigate } from 'react-router-dom';
 import { Button } from '@/components/button';
 import { Wordmark } from '@/components/logo-mark';
 import { ProblemAlert } from '@/components/problem-alert';
 import { Loading } from '@/components/states';
 import { api, unwrap } from '@/lib/api-client';
+import { forgetSignedIn, lastSignedIn, rememberSignedIn, returnToState } from '@/lib/return-to';
 import { hasPermission, sessionQueryKey, useSession, type Session } from '@/lib/session';
 import { groupLabels, navItems, type NavItem } from './nav-items';
 
@@ -24,10 +26,13 @@ function SignOutButton() {
   const navigate = useNavigate();
   const signOut = useMutation({
     mutationFn: () => unwrap(api.POST('/v1/auth/sign-out')),
-    onSettled: async () => {
+    // Signing out is no lost session: the sign-in page opens with no page to return to, before the
+    // shell could see the session gone and remember the page it was on.
+    onSettled: () => {
+      forgetSignedIn();
+      queryClient.setQueryData(sessionQueryKey, null);
+      navigate('/sign-in', { replace: true });
       queryClient.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionQueryKey[0] });
-      await queryClient.invalidateQueries({ queryKey: sessionQueryKey });
-      navigate('/sign-in');
     },
   });
   return (
@@ -40,9 +45,13 @@ function SignOutButton() {
 export function AppShell() {
   const { data: session, isPending, error } = useSession();
   const location = useLocation();
+  // Who holds the session, so that when it ends under this page only they are returned to it.
+  useEffect(() => {
+    if (session) rememberSignedIn(session);
+  }, [session]);
   if (isPending) return <Loading label="Opening the console…" />;
   if (error) return <ProblemAlert error={error} className="m-8" />;
-  if (!session) return <Navigate to="/sign-in" replace state={{ from: location.pathname + location.search }} />;
+  if (!session) return <Navigate to="/sign-in" replace state={returnToState(location.pathname + location.search, lastSignedIn())} />;
 
   const items = visibleNavItems(session);
   const groups = (['work', 'tenant', 'operator'] as const).filter((g) => items.some((i) => i.group === g));
@@ -83,11 +92,14 @@ export function AppShell() {
             </div>
           ))}
         </nav>
-        <div className="flex items-center gap-1 px-2 pb-2 lg:mt-4 lg:border-t lg:border-ash-100 lg:pt-2">
-          <NavLink to="/account" className="rounded-md px-2 py-1 text-xs text-ash-600 hover:bg-ash-100">
+        <div className="flex flex-wrap items-center gap-1 px-2 pb-2 lg:mt-4 lg:border-t lg:border-ash-100 lg:pt-2">
+          <NavLink to="/account" className="whitespace-nowrap rounded-md px-2 py-1 text-xs text-ash-600 hover:bg-ash-100">
             Your account
           </NavLink>
           <SignOutButton />
+          <a href="/docs" target="_blank" rel="noreferrer" className="whitespace-nowrap rounded-md px-2 py-1 text-xs text-ash-600 hover:bg-ash-100 lg:basis-full">
+            API reference ↗
+          </a>
         </div>
         </div>
       </aside>

@@ -2,6 +2,7 @@ import { useMemo } from 'react';
 import { Bar, CartesianGrid, ComposedChart, Legend, Line, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { chartColors } from '@/lib/chart-colors';
 import type { Schemas } from '@/lib/api-client';
+import { axisUnit, legendStyle, tickNumber, valueWithUnit } from '@/lib/chart-format';
 import { formatNumber, formatPercent } from '@/lib/format';
 import { usagePoints } from '@/lib/usage-series';
 
@@ -17,6 +18,7 @@ function QuotaChart({ title, usage, kind }: { title: string; usage: Usage; kind:
   );
   const toDate = kind === 'runs' ? 'runsToDate' : 'solverSecondsToDate';
   const pace = kind === 'runs' ? 'runsPace' : 'solverSecondsPace';
+  const unit = kind === 'runs' ? 'runs' : 'solver-s';
   return (
     <figure className="min-w-0 rounded-lg border border-ash-200 bg-white p-3" aria-label={title}>
       <figcaption className="mb-2 flex items-baseline justify-between">
@@ -33,10 +35,10 @@ function QuotaChart({ title, usage, kind }: { title: string; usage: Usage; kind:
           <ComposedChart data={data} margin={{ top: 4, right: 8, bottom: 0, left: 0 }}>
             <CartesianGrid stroke={chartColors.grid} vertical={false} />
             <XAxis dataKey="date" tickFormatter={day} tick={tick} tickLine={false} />
-            <YAxis yAxisId="day" width={40} tick={tick} />
-            <YAxis yAxisId="total" orientation="right" width={48} tick={tick} />
-            <Tooltip />
-            <Legend wrapperStyle={{ fontSize: 11 }} />
+            <YAxis yAxisId="day" width={52} tick={tick} tickFormatter={tickNumber} label={axisUnit(`${unit} per day`)} />
+            <YAxis yAxisId="total" orientation="right" width={56} tick={tick} tickFormatter={tickNumber} label={{ ...axisUnit(`${unit} this month`), angle: 90, position: 'insideRight' }} />
+            <Tooltip formatter={valueWithUnit(unit)} />
+            <Legend wrapperStyle={legendStyle} />
             <Bar yAxisId="day" dataKey={kind} name="per day" fill={chartColors.greyLight} isAnimationActive={false} />
             <Line yAxisId="total" dataKey={toDate} name="month to date" stroke={chartColors.accent} strokeWidth={2} dot={false} isAnimationActive={false} />
             <Line yAxisId="total" dataKey={pace} name="even pace to quota" stroke={chartColors.grey} strokeDasharray="4 3" dot={false} isAnimationActive={false} />

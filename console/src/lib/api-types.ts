@@ -420,7 +420,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** The plans on offer and their limits. */
+        /**
+         * The plans on offer and their limits.
+         * @description Not data of any tenant, so operators list them without choosing one (no `X-Tenant-Id`).
+         */
         get: operations["listPlans"];
         put?: never;
         post?: never;
@@ -808,7 +811,7 @@ export interface paths {
         };
         /**
          * The tenant's runs, newest first.
-         * @description Cursor pagination; the `Link` header carries `rel="next"` while more runs exist.
+         * @description Cursor pagination; the `Link` header carries `rel="next"` while more runs exist. A finished run carries its `objective` (net value: value positive, cost negative); the rest of its result is read from `GET /v1/runs/{runId}`.
          */
         get: operations["listRuns"];
         put?: never;
@@ -987,23 +990,64 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** The tenant's series (summaries, newest first, at most 100). */
+        /** The tenant's series (summaries, newest first, at most 100); the columns of one file share an `uploadId`. */
         get: operations["listSeries"];
         put?: never;
         /**
-         * Upload a CSV exported from a SCADA or historian; each value column becomes a series in kW at a fixed step.
+         * Upload a CSV exported from a SCADA or historian; each value column becomes a series at a fixed step, with its kind and a suggested role.
          * @description `multipart/form-data` with one part `file` (at most `SERIES_MAX_BYTES`, default 5 MiB, else
          *     `413`). The options are query parameters. The delimiter (`,` `;` tab `|`) and a decimal comma
-         *     are detected. Each value column's unit comes from its header (`pv [kW]`, `pv (W)`, `pv_MW`)
-         *     or from `unit`. Timestamps with an offset are taken as written; local ones need `timezone`
-         *     (IANA), where a repeated hour at the end of summer time is read in file order and a
-         *     skipped local time is an error. Irregular or finer samples are resampled to `stepMinutes`
+         *     are detected. Each value column's kind and unit come from its header: a **power** (`pv [kW]`,
+         *     `load (W)`, `pv_MW`; stored in kW, `unit` stands for the unit of every power column), a
+         *     **price** (`import price [EUR/MWh]`, `tariff (per kWh)`, or a header that says price or tariff
+         *     and names no unit; stored per kWh, never converted as a power, negative prices allowed) or a
+         *     **rate** of a product (`water demand [m3/h]`, any unit per hour; stored as written). Timestamps
+         *     with an offset are taken as written; local ones are read in `timezone` (IANA) or in the zone
+         *     the timestamp column's header names (`time (Europe/Vienna)`), where a repeated hour at the end
+         *     of summer time is read in file order and a skipped local time is an error; that zone is kept
+         *     and offered as `horizon.timeZone`. Irregular or finer samples are resampled to `stepMinutes`
          *     by the time-weighted mean (each value holds until the next timestamp). Empty cells and
-         *     spacing over 1.5 × the typical one are missing values: `400` naming the rows, unless
-         *     `fill` says how to fill them. Use a series in a spec as `supply: { seriesId }`.
+         *     spacing over 1.5 × the typical one are missing values: `400` naming the rows, unless `fill`
+         *     says how to fill them.
+         *
+         *     The answer lists every column with its kind, unit and the role its header suggests
+         *     (`suggestedRole`), and `horizon`: the start, step and step count the file covers, ready for a
+         *     spec's `horizon`. `POST /v1/series/spec-draft` turns the roles into spec fields; a spec can
+         *     also name a power series directly as `supply: { seriesId }`.
          *     (The OpenAPI validator checks the query; the route checks the file after reading it.)
          */
         post: operations["uploadSeries"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/series/spec-draft": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Build a site spec from uploaded series and the role each plays.
+         * @description Each assignment gives a series a role: `supply` (a power; written as `supply: { seriesId }`),
+         *     `siteLoad` (a power; `siteLoad.kw`), `importPrice` and `exportPrice` (prices; `grid.importPrice`,
+         *     `grid.exportPrice`), `storeDemand` (a rate; `stores[].demandPerHour` of the store `storeId`
+         *     names in `base`) and `reserve` (a power; `reserve.upKw`). Values other than the supply are
+         *     written inline. The horizon is the steps all the series cover (or the window `horizon` asks
+         *     for), in the IANA zone their file was read in; without one, the base's `timeZone` stays when it
+         *     has the file's offset at the start.
+         *
+         *     `base` is the spec to build into (the one being edited): everything the roles do not set stays
+         *     as it is. Nothing is stored. The answer carries the draft, `notes` on what it changed or leaves
+         *     to decide (a price without a grid limit), and `problems`: the site-spec check of the draft as it
+         *     stands, e.g. a per-step array of `base` whose length no longer matches the horizon.
+         */
+        post: operations["draftSpecFromSeries"];
         delete?: never;
         options?: never;
         head?: never;
@@ -1020,7 +1064,7 @@ export interface paths {
             };
             cookie?: never;
         };
-        /** A series' summary (range, step, unit, filled steps) and its values in kW. */
+        /** A series' summary (range, step, kind and unit, filled steps) and its values in its unit. */
         get: operations["getSeries"];
         put?: never;
         post?: never;
@@ -1775,14 +1819,25 @@ export interface components {
             sourceFilename?: string | null;
             /** @description The value column of the file. */
             column?: string;
-            /** @enum {string} */
-            sourceUnit?: "W" | "kW" | "MW";
-            /** @constant */
-            unit?: "kW";
+            /**
+             * @description What the column holds, read from its header.
+             * @enum {string}
+             */
+            kind?: "power" | "price" | "rate";
+            /** @description The unit the file states: W, kW or MW for a power; e.g. EUR/MWh for a price; e.g. kg/h for a rate. */
+            sourceUnit?: string;
+            /** @description `kW` for a power, `per kWh` (money of the tenant's currency) for a price, the file's unit for a rate. */
+            unit?: string;
+            /** @description The role the header suggests for it in a spec (`POST /v1/series/spec-draft`); null when none. */
+            suggestedRole?: components["schemas"]["SeriesRole"] | null;
+            /** @description Shared by the columns of one file; null for series uploaded before uploads were grouped. */
+            uploadId?: string | null;
             /** Format: date-time */
             start?: string;
             /** Format: date-time */
             end?: string;
+            /** @description The IANA zone the file's local timestamps were read in, offered as `horizon.timeZone`; null when they carried offsets. */
+            timeZone?: string | null;
             stepMinutes?: number;
             steps?: number;
             sourceRows?: number;
@@ -1799,7 +1854,55 @@ export interface components {
             };
         };
         Series: components["schemas"]["SeriesSummary"] & {
+            /** @description One value per step */
+            values?: number[];
+            /** @description A power only: the same values (kW). */
             valuesKw?: number[];
+        };
+        /**
+         * @description The spec field a series fills: supply → `supply.seriesId`, siteLoad → `siteLoad.kw`, importPrice / exportPrice → `grid.importPrice` / `grid.exportPrice`, storeDemand → a store's `demandPerHour`, reserve → `reserve.upKw`. Supply, site load and reserve take a power, the prices a price, a store's demand a rate.
+         * @enum {string}
+         */
+        SeriesRole: "supply" | "siteLoad" | "importPrice" | "exportPrice" | "storeDemand" | "reserve";
+        OfferedHorizon: {
+            /** Format: date-time */
+            start: string;
+            /** @enum {integer} */
+            stepMinutes: 5 | 10 | 15 | 30 | 60;
+            steps: number;
+            /** @description The IANA zone the file was read in, when it had one. */
+            timeZone?: string;
+        };
+        SpecDraftRequest: {
+            assignments: {
+                seriesId: string;
+                role: components["schemas"]["SeriesRole"];
+                /** @description storeDemand only: the id of a store of `base`. */
+                storeId?: string;
+            }[];
+            /** @description A window of the steps the series share; default: all of them. */
+            horizon?: {
+                /**
+                 * Format: date-time
+                 * @description The start of one of the shared steps.
+                 */
+                start?: string;
+                steps?: number;
+            };
+            /** @description The site spec to build into, complete or not; default: none (a spec of only what the roles give). */
+            base?: {
+                [key: string]: unknown;
+            };
+        };
+        SpecDraft: {
+            /** @description The site spec as built: submit it to `POST /v1/runs` once `problems` is empty. */
+            spec: {
+                [key: string]: unknown;
+            };
+            /** @description What the draft changed or leaves to decide, at the field concerned. */
+            notes: components["schemas"]["ProblemFieldError"][];
+            /** @description The site-spec check of the draft (the messages `POST /v1/specs/validate` gives). */
+            problems: components["schemas"]["ProblemFieldError"][];
         };
         /** @enum {string} */
         WebhookEvent: "run.succeeded" | "run.failed" | "run.cancelled";
@@ -2199,11 +2302,12 @@ export interface components {
             status: number;
             detail: string;
             instance?: string;
-            errors?: {
-                /** @description RFC 6901 JSON Pointer into the request body. */
-                pointer: string;
-                message: string;
-            }[];
+            errors?: components["schemas"]["ProblemFieldError"][];
+        };
+        ProblemFieldError: {
+            /** @description RFC 6901 JSON Pointer into the request body. */
+            pointer: string;
+            message: string;
         };
     };
     responses: {
@@ -4147,7 +4251,7 @@ export interface operations {
                 /** @description Target step; default: the smallest allowed step not finer than the samples. */
                 stepMinutes?: 5 | 10 | 15 | 30 | 60;
                 /**
-                 * @description IANA zone for timestamps without an offset.
+                 * @description IANA zone for timestamps without an offset; default: the zone the timestamp column's header names in brackets.
                  * @example Europe/Berlin
                  */
                 timezone?: string;
@@ -4156,7 +4260,7 @@ export interface operations {
                  * @example dd.MM.yyyy HH:mm
                  */
                 timestampFormat?: string;
-                /** @description The unit of every value column (overrides the headers). */
+                /** @description The unit of every power column (overrides their headers; prices and rates keep theirs). */
                 unit?: "W" | "kW" | "MW";
                 /** @description How missing steps are filled; `none` (default) refuses them. */
                 fill?: "none" | "zero" | "previous" | "linear";
@@ -4193,6 +4297,13 @@ export interface operations {
                 content: {
                     "application/json": {
                         items: components["schemas"]["SeriesSummary"][];
+                        /**
+                         * Format: uuid
+                         * @description Shared by the series of this file (`uploadId` of each).
+                         */
+                        uploadId: string;
+                        /** @description The steps every column covers, as a spec's `horizon`; null when the columns share none. */
+                        horizon: components["schemas"]["OfferedHorizon"] | null;
                     };
                 };
             };
@@ -4208,6 +4319,41 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+        };
+    };
+    draftSpecFromSeries: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["SpecDraftRequest"];
+            };
+        };
+        responses: {
+            /** @description The draft. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["SpecDraft"];
+                };
+            };
+            /** @description An assignment names a series the tenant does not have, gives a role a series of the wrong kind (a price as the supply), repeats a role, or names no store for a store's demand; the series step differently or share no step; or `horizon` asks for steps they do not cover. `errors[]` points at the assignment or field. */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
         };
     };
     getSeries: {

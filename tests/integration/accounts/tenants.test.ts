@@ -94,6 +94,14 @@ describe('tenants (operators) and isolation', () => {
     await asOperator(request(t.app).get(`/v1/admin/tenants/${tenantId}/usage`)).expect(200);
   });
 
+  it('lists the plans to an operator who has chosen no tenant (the plan pickers of the operator pages)', async () => {
+    const plans = await request(t.app).get('/v1/plans').set('Cookie', operator.cookie).expect(200);
+    expect(plans.body.items.map((p: { id: string }) => p.id)).toEqual(expect.arrayContaining(['pilot', 'field', 'fleet']));
+    // The tenant itself still needs one.
+    const tenant = await request(t.app).get('/v1/tenant').set('Cookie', operator.cookie).expect(400);
+    expect(tenant.body.type).toBe('/problems/tenant-not-selected');
+  });
+
   it('keeps the last owner', async () => {
     const { tenantId } = await createTenantWithKey(t.ctx);
     const owner = await createUserSession(t.ctx, t.app, { tenantId, role: 'owner' });

@@ -45,13 +45,13 @@ describe('input limits, whatever the route', () => {
 
   it('refuses a run on a series stored before uploads were held to the limits, naming the series', async () => {
     const [row] = await t.ctx.db.query(
-      `INSERT INTO series (tenant_id, name, source_column, source_unit, start, start_offset, step_minutes, steps, values_kw, source_rows, fill_policy)
+      `INSERT INTO series (tenant_id, name, source_column, source_unit, start, start_offset, step_minutes, steps, step_values, source_rows, fill_policy)
        VALUES ($1, 'old', 'pv', 'kW', '2027-03-01T00:00:00Z', '+00:00', 60, 3, '[1, 2, 3]', 3, 'none') RETURNING id`,
       [tenantId],
     );
     // As a row stored before the database refused such values (the constraint holds for new rows only).
     await t.ctx.db.query(`ALTER TABLE series DROP CONSTRAINT series_values_check`);
-    await t.ctx.db.query(`UPDATE series SET values_kw = '[1, 1e203, null]' WHERE id = $1`, [row.id]);
+    await t.ctx.db.query(`UPDATE series SET step_values = '[1, 1e203, null]' WHERE id = $1`, [row.id]);
     const spec = smallSpec({ horizon: { start: '2027-03-01T00:00:00Z', stepMinutes: 60, steps: 3 }, supply: { seriesId: row.id }, siteLoad: { kw: [20, 20, 20] } });
     const res = await request(t.app).post('/v1/specs/validate').set('Authorization', `Bearer ${apiKey}`).send(spec);
     expect(JSON.stringify(res.body), JSON.stringify(res.body)).toMatch(/\/supply\/seriesId/);

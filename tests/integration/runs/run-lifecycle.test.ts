@@ -54,6 +54,12 @@ describe('a run through the queue', () => {
     expect(spec.body).toMatchObject({ name: 'Test yard', horizon: smallSpec().horizon });
     const log = await request(t.app).get(`/v1/runs/${runId}/log`).set(bearer(key)).expect(200);
     expect(log.text).toMatch(/HiGHS/);
+    // The list carries a finished run's objective and leaves its schedule to the run itself.
+    const list = await request(t.app).get('/v1/runs').set(bearer(key)).expect(200);
+    const listed = list.body.items.find((r: { id: string }) => r.id === runId);
+    expect(listed.objective).toEqual(done.objective);
+    expect(listed.schedule).toBeUndefined();
+    expect(runSchema.safeParse(listed).error).toBeUndefined();
   });
 
   it('gives the same result as the CLI for the same demo spec', async () => {

@@ -1,4 +1,4 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, multipartBody, unwrap, type Schemas } from '@/lib/api-client';
 import { isProblem } from '@/lib/api-problem';
 import { runsQueryKey } from '@/lib/queries/runs';
@@ -42,12 +42,28 @@ export function useSubmitRun() {
 }
 
 export type UploadedSeries = Schemas['SeriesSummary'];
+export type SeriesRole = Schemas['SeriesRole'];
+export type SpecDraft = Schemas['SpecDraft'];
+export type SpecDraftRequest = Schemas['SpecDraftRequest'];
+
+export const seriesQueryKey = ['series'] as const;
+
+export const listSeries = async () => (await unwrap(api.GET('/v1/series'))).items;
+
+export function getSeriesListQueryOptions() {
+  return queryOptions({ queryKey: [...seriesQueryKey, 'list'], queryFn: listSeries });
+}
+
+/** The tenant's uploaded series, newest first: uploads stay reusable across sessions. */
+export function useSeriesList(enabled = true) {
+  return useQuery({ ...getSeriesListQueryOptions(), enabled });
+}
 
 /** Multipart upload; the options travel as query parameters, as the route documents. */
-export async function uploadSeries(input: { file: File; name: string }): Promise<UploadedSeries[]> {
+export async function uploadSeries(input: { file: File; name: string; timezone?: string }): Promise<UploadedSeries[]> {
   const body = await unwrap(
     api.POST('/v1/series', {
-      params: { query: { name: input.name || undefined } },
+      params: { query: { name: input.name || undefined, timezone: input.timezone || undefined } },
       // The generated type calls the binary part a string; multipartBody sends the File as it is.
       body: { file: input.file as unknown as string },
       bodySerializer: multipartBody,
@@ -57,5 +73,13 @@ export async function uploadSeries(input: { file: File; name: string }): Promise
 }
 
 export function useUploadSeries() {
-  return useMutation({ mutationFn: uploadSeries });
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn: uploadSeries, onSuccess: () => queryClient.invalidateQueries({ queryKey: seriesQueryKey }) });
+}
+
+/** The spec fields the roles give, built into the spec being edited (`base`). */
+export const draftSpec = (request: SpecDraftRequest) => unwrap(api.POST('/v1/series/spec-draft', { body: request }));
+
+export function useDraftSpec() {
+  return useMutation({ mutationFn: draftSpec });
 }

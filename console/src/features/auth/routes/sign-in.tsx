@@ -3,6 +3,7 @@ import { Link, Navigate, useLocation } from 'react-router-dom';
 import { Button } from '@/components/button';
 import { TextField } from '@/components/field';
 import { ProblemAlert } from '@/components/problem-alert';
+import { pathAfterSignIn } from '@/lib/return-to';
 import { useSession } from '@/lib/session';
 import { useSignIn } from '../api';
 import { AuthCard } from '../components/auth-card';
@@ -13,9 +14,8 @@ export function SignInRoute() {
   const signIn = useSignIn();
   const { data: session } = useSession();
   const location = useLocation();
-  const from = (location.state as { from?: string } | null)?.from ?? '/';
 
-  if (session) return <Navigate to={from} replace />;
+  if (session) return <Navigate to={pathAfterSignIn(location.state, session)} replace />;
 
   const submit = (e: FormEvent) => {
     e.preventDefault();

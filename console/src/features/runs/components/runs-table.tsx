@@ -8,11 +8,13 @@ import { objectiveValue } from '../api';
 
 type SortKey = 'status' | 'name' | 'steps' | 'objective' | 'outcome' | 'solverSeconds' | 'createdAt';
 
-const columns: { key: SortKey; label: string; numeric?: boolean }[] = [
+export const NET_VALUE_NOTE = "Net value: the run's objective in your tenant's currency, value earned minus costs — positive is a net value, negative a net cost.";
+
+const columns: { key: SortKey; label: string; numeric?: boolean; title?: string }[] = [
   { key: 'status', label: 'Status' },
   { key: 'name', label: 'Name' },
   { key: 'steps', label: 'Steps', numeric: true },
-  { key: 'objective', label: 'Objective', numeric: true },
+  { key: 'objective', label: 'Net value', numeric: true, title: NET_VALUE_NOTE },
   { key: 'outcome', label: 'Outcome' },
   { key: 'solverSeconds', label: 'Solve time', numeric: true },
   { key: 'createdAt', label: 'Created' },
@@ -54,6 +56,7 @@ export function RunsTable({ runs }: { runs: Run[] }) {
                 type="button"
                 className="inline-flex items-center gap-1 uppercase hover:text-ash-900"
                 aria-sort={sort.key === c.key ? (sort.dir === 1 ? 'ascending' : 'descending') : 'none'}
+                title={c.title}
                 onClick={() => setSort((s) => ({ key: c.key, dir: s.key === c.key ? (s.dir === 1 ? -1 : 1) : 1 }))}
               >
                 {c.label}
@@ -82,7 +85,7 @@ export function RunsTable({ runs }: { runs: Run[] }) {
               </Link>
             </Td>
             <Td className="text-right font-mono text-xs">{run.steps ?? '—'}</Td>
-            <Td className="text-right font-mono text-xs">{formatNumber(objectiveValue(run))}</Td>
+            <Td className="text-right font-mono text-xs">{formatNumber(objectiveValue(run), 2, { signed: true })}</Td>
             <Td className="text-xs">{run.outcome ?? '—'}</Td>
             <Td className="text-right font-mono text-xs">{formatSeconds(run.solverSeconds)}</Td>
             <Td className="whitespace-nowrap text-xs text-ash-600">{formatDateTime(run.createdAt)}</Td>

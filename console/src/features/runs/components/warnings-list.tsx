@@ -16,7 +16,7 @@ export function WarningsList({ warnings, onPointer }: { warnings: ResultWarning[
           <span className="min-w-0 flex-1 text-ash-800">{w.message}</span>
           {stepsText(w.steps) && <span className="text-xs text-ash-500">{stepsText(w.steps)}</span>}
           {w.pointer && (
-            <button type="button" onClick={() => onPointer(w.pointer!)} className="font-mono text-xs text-kiln-700 underline hover:text-kiln-900">
+            <button type="button" onClick={() => onPointer(w.pointer!)} className="max-w-full break-all text-left font-mono text-xs text-kiln-700 underline hover:text-kiln-900">
               {w.pointer}
             </button>
           )}

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { AdvisoryNote } from '@/components/advisory-note';
+import { CodeSnippetPanel } from '@/components/code-snippet-panel';
 import { JsonViewer } from '@/components/json-viewer';
 import { PageHeader } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
@@ -19,6 +20,7 @@ const views = [
   { id: 'schedule', label: 'Step table' },
   { id: 'formulation', label: 'Formulation report' },
   { id: 'spec', label: 'Submitted spec' },
+  { id: 'code', label: 'Call from code' },
   { id: 'deliveries', label: 'Webhook deliveries' },
 ] as const;
 type View = (typeof views)[number]['id'];
@@ -73,6 +75,8 @@ export function RunDetailRoute() {
       <div role="tabpanel" aria-label={views.find((v) => v.id === view)?.label}>
         {view === 'spec' ? (
           spec.isPending ? <Loading /> : spec.error ? <ProblemAlert error={spec.error} /> : <JsonViewer value={spec.data} pointer={pointer} />
+        ) : view === 'code' ? (
+          spec.isPending ? <Loading /> : spec.error ? <ProblemAlert error={spec.error} /> : <CodeSnippetPanel spec={spec.data} />
         ) : view === 'deliveries' ? (
           <RunDeliveries runId={r.id} />
         ) : !result ? (

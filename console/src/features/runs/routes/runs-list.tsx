@@ -8,7 +8,7 @@ import { EmptyState, Loading } from '@/components/states';
 import { usePermission } from '@/lib/session';
 import { RUN_STATUSES, type RunStatus } from '@gridwright/shared/run-result';
 import { useRuns } from '../api';
-import { RunsTable } from '../components/runs-table';
+import { NET_VALUE_NOTE, RunsTable } from '../components/runs-table';
 
 export function RunsListRoute() {
   const [status, setStatus] = useState<RunStatus | ''>('');
@@ -69,6 +69,9 @@ export function RunsListRoute() {
       ) : (
         <>
           <RunsTable runs={shown} />
+          <p className="mt-1.5 text-xs text-ash-500" data-testid="net-value-note">
+            {NET_VALUE_NOTE}
+          </p>
           <div className="mt-2 flex items-center justify-end gap-2">
             <Button size="sm" disabled={cursors.length <= 1} onClick={() => setCursors((c) => c.slice(0, -1))}>
               ← Newer

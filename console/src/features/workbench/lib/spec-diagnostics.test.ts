@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { issuesToDiagnostics, localSpecIssues } from './spec-diagnostics';
+import { issuesToDiagnostics, localSpecIssues, mergeIssues } from './spec-diagnostics';
 
 const good = {
   horizon: { start: '2027-03-01T00:00:00+01:00', stepMinutes: 60, steps: 2 },
@@ -36,5 +36,24 @@ describe('issuesToDiagnostics', () => {
     expect(text.slice(d.from, d.to)).toBe('"horizon"');
     expect(d.message).toBe('/horizon/start2: required');
     expect(d.severity).toBe('warning');
+  });
+});
+
+describe('mergeIssues', () => {
+  it('lists an issue the console and the API both found once, naming both', () => {
+    const stepMinutes = { pointer: '/horizon/stepMinutes', message: 'must be one of 5, 10, 15, 30, 60' };
+    const merged = mergeIssues([
+      { source: 'site spec', issues: [stepMinutes] },
+      { source: 'API', issues: [stepMinutes, { pointer: '/supply/seriesId', message: 'no series' }, stepMinutes] },
+    ]);
+    expect(merged).toEqual([
+      { ...stepMinutes, source: 'site spec · API' },
+      { pointer: '/supply/seriesId', message: 'no series', source: 'API' },
+    ]);
+  });
+
+  it('keeps two messages at one pointer apart', () => {
+    const merged = mergeIssues([{ source: 'API', issues: [{ pointer: '/a', message: 'x' }, { pointer: '/a', message: 'y' }] }]);
+    expect(merged).toHaveLength(2);
   });
 });

@@ -1,25 +1,25 @@
 import { useMemo, useState } from 'react';
 import { CopyButton } from '@/components/copy-button';
 import { SelectField } from '@/components/field';
+import { keyVariableName, SNIPPET_LANGUAGES, snippetFor, type SnippetLanguage } from '@/lib/code-snippets';
 import { useApiKeys } from '@/lib/queries/api-keys';
 import { usePermission } from '@/lib/session';
-import { curlSnippet, fetchSnippet, keyVariableName } from '../lib/code-snippets';
 
-/** The same Solve request the button sends, as code an integrator can paste into a script. */
-export function CodePanel({ spec }: { spec: unknown }) {
+/**
+ * A spec's Solve request as code an integrator can paste into a script: the workbench shows the spec
+ * being edited, a run page the exact spec of that run.
+ */
+export function CodeSnippetPanel({ spec }: { spec: unknown }) {
   const canListKeys = usePermission('keys.read');
   const keys = useApiKeys(false, canListKeys);
   const live = keys.data?.items.filter((k) => !k.revokedAt) ?? [];
   const [keyId, setKeyId] = useState('');
-  const [lang, setLang] = useState<'curl' | 'ts'>('curl');
+  const [language, setLanguage] = useState<SnippetLanguage>('curl');
   const picked = live.find((k) => k.id === keyId);
   const keyVariable = keyVariableName(picked?.name);
-  const code = useMemo(() => {
-    const input = { origin: window.location.origin, spec, keyVariable };
-    return lang === 'curl' ? curlSnippet(input) : fetchSnippet(input);
-  }, [spec, keyVariable, lang]);
+  const code = useMemo(() => snippetFor(language, { origin: window.location.origin, spec, keyVariable }), [language, spec, keyVariable]);
   return (
-    <div className="space-y-2">
+    <div className="space-y-2" data-testid="code-snippet">
       <div className="flex flex-wrap items-end gap-2">
         <SelectField label="API key" className="w-56" value={keyId} onChange={(e) => setKeyId(e.target.value)}>
           <option value="">Any key (GRIDWRIGHT_KEY)</option>
@@ -30,9 +30,16 @@ export function CodePanel({ spec }: { spec: unknown }) {
           ))}
         </SelectField>
         <div role="radiogroup" aria-label="Language" className="flex rounded-md border border-ash-300 text-xs">
-          {(['curl', 'ts'] as const).map((l) => (
-            <button key={l} type="button" role="radio" aria-checked={lang === l} onClick={() => setLang(l)} className={`px-2.5 py-1.5 ${lang === l ? 'bg-ash-900 text-white' : 'text-ash-700'}`}>
-              {l === 'curl' ? 'curl' : 'TypeScript fetch'}
+          {SNIPPET_LANGUAGES.map((l) => (
+            <button
+              key={l.id}
+              type="button"
+              role="radio"
+              aria-checked={language === l.id}
+              onClick={() => setLanguage(l.id)}
+              className={`px-2.5 py-1.5 ${language === l.id ? 'bg-ash-900 text-white' : 'text-ash-700'}`}
+            >
+              {l.label}
             </button>
           ))}
         </div>

@@ -1,10 +1,17 @@
 export interface SnippetInput {
   origin: string;
-  /** The spec as the user has it; compacted so the snippet stays one request. */
+  /** The spec to submit; compacted in the shell command so it stays one request. */
   spec: unknown;
   /** How the snippet refers to the key: an environment variable named after the picked key. */
   keyVariable: string;
 }
+
+export const SNIPPET_LANGUAGES = [
+  { id: 'curl', label: 'curl' },
+  { id: 'ts', label: 'TypeScript fetch' },
+  { id: 'python', label: 'Python requests' },
+] as const;
+export type SnippetLanguage = (typeof SNIPPET_LANGUAGES)[number]['id'];
 
 /** The Solve request as a shell command, with the key read from the environment rather than pasted in. */
 export function curlSnippet({ origin, spec, keyVariable }: SnippetInput): string {
@@ -42,6 +49,44 @@ while (current.status === 'queued' || current.status === 'running') {
   })).json();
 }
 console.log(current.status, current.objective);`;
+}
+
+/** JSON literals that Python reads the same way: true, false and null become True, False and None. */
+function pythonLiteral(value: unknown): string {
+  return JSON.stringify(value, null, 4).replace(/("(?:[^"\\]|\\.)*")|\b(true|false|null)\b/g, (match, quoted: string | undefined, word: string | undefined) =>
+    quoted ?? (word === 'true' ? 'True' : word === 'false' ? 'False' : 'None'),
+  );
+}
+
+export function pythonSnippet({ origin, spec, keyVariable }: SnippetInput): string {
+  return `import os
+import time
+import uuid
+
+import requests
+
+spec = ${pythonLiteral(spec)}
+
+headers = {"Authorization": f"Bearer {os.environ['${keyVariable}']}"}
+res = requests.post(
+    "${origin}/v1/runs",
+    json=spec,
+    headers={**headers, "Idempotency-Key": str(uuid.uuid4())},
+    timeout=30,
+)
+if res.status_code != 202:
+    raise RuntimeError(f"Gridwright refused the spec: {res.text}")
+run = res.json()
+
+# Poll until the run settles (or register a webhook endpoint and wait for run.succeeded).
+while run["status"] in ("queued", "running"):
+    time.sleep(1)
+    run = requests.get(f"${origin}/v1/runs/{run['id']}", headers=headers, timeout=30).json()
+print(run["status"], run.get("objective"))`;
+}
+
+export function snippetFor(language: SnippetLanguage, input: SnippetInput): string {
+  return language === 'curl' ? curlSnippet(input) : language === 'ts' ? fetchSnippet(input) : pythonSnippet(input);
 }
 
 /** GRIDWRIGHT_KEY_<NAME>: a shell-safe variable name derived from the key's name. */
