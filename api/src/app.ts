@@ -26,9 +26,11 @@ import { outboxRouter } from './routes/outbox';
 import { tenantRouter } from './routes/tenant';
 import { usageRouter } from './routes/usage';
 import { exportProfilesRouter } from './routes/export-profiles';
+import { revisionsRouter } from './routes/revisions';
 import { runsRouter } from './routes/runs';
 import { seriesRouter } from './routes/series';
 import { specsRouter } from './routes/specs';
+import { studiesRouter } from './routes/studies';
 import { webhookEndpointsRouter } from './routes/webhook-endpoints';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
@@ -174,6 +176,8 @@ export function buildApp(ctx: AppContext): Express {
   app.use(adminTenantsRouter(ctx));
   app.use(outboxRouter(ctx));
   app.use(runsRouter(ctx));
+  app.use(revisionsRouter(ctx));
+  app.use(studiesRouter(ctx));
   app.use(specsRouter(ctx));
   app.use(seriesRouter(ctx));
   app.use(webhookEndpointsRouter(ctx));

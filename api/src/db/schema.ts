@@ -15,6 +15,7 @@ import { ExportProfile } from './entities/export-profile';
 import { IdempotencyKey } from './entities/idempotency-key';
 import { Run } from './entities/run';
 import { Series } from './entities/series';
+import { Study } from './entities/study';
 import { WebhookDelivery } from './entities/webhook-delivery';
 import { WebhookEndpoint } from './entities/webhook-endpoint';
 import { Runs1780000100000 } from './migrations/1780000100000-runs';
@@ -25,12 +26,13 @@ import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-p
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
 import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues';
 import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
+import { RevisionsAndStudies1780000710000 } from './migrations/1780000710000-revisions-and-studies';
 
 type Constructor = new (...args: any[]) => unknown;
 
 export const entities: Constructor[] = [
   Plan, Tenant, User, Session, ApiKey, Invitation, PasswordReset, AuditEvent, OutboxMessage, RunUsage,
-  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile,
+  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile, Study,
 ];
 
 export const migrations: Constructor[] = [
@@ -39,4 +41,5 @@ export const migrations: Constructor[] = [
   RunStatusCheck1780000400000,
   InputGuards1780000500000,
   FairQueues1780000600000,
+  RevisionsAndStudies1780000710000,
 ];

@@ -3,6 +3,7 @@ import type { RunStatus } from '@gridwright/shared/run-result';
 import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { strictRouter } from '../lib/strict-router';
+import { runActorOf } from './run-actor';
 import { cancelRun } from '../runs/cancellation';
 import { delimiterNamed } from '../lib/csv-delimiters';
 import { optionalInstant } from '../lib/instants';
@@ -12,11 +13,6 @@ import { submitRun } from '../runs/submission';
 import { runDetail, runSummary } from '../runs/view';
 import { parseIdempotencyKey } from '../services/idempotency';
 import { deliveryView } from '../services/webhooks';
-
-const actorOf = (req: Request) => {
-  const p = req.principal!;
-  return { tenantId: p.tenantId, userId: p.userId, apiKeyId: p.apiKeyId };
-};
 
 function queryString(q: Record<string, unknown>) {
   const params = new URLSearchParams();
@@ -40,7 +36,7 @@ export function runsRouter(ctx: AppContext): Router {
 
   r.post('/v1/runs', auth, authorize('runs.create'), async (req, res) => {
     const key = parseIdempotencyKey(req.get('idempotency-key'));
-    const { run, replayed } = await submitRun(ctx, actorOf(req), req.body, key);
+    const { run, replayed } = await submitRun(ctx, runActorOf(req), req.body, key);
     res.status(202).location(`/v1/runs/${run.id}`);
     if (replayed) res.setHeader('Idempotent-Replayed', 'true');
     res.json(runSummary(run));
