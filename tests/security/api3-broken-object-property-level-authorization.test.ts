@@ -8,6 +8,7 @@ import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputGuards1780000500000 } from '../../api/src/db/migrations/1780000500000-input-guards';
+import { RevisionsAndStudies1780000710000 } from '../../api/src/db/migrations/1780000710000-revisions-and-studies';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { updateExportProfile } from '../../api/src/services/export-profiles';
 import { changeMemberRole, inviteMember } from '../../api/src/services/members';
@@ -247,12 +248,16 @@ describe('API3 behind the routes: the services and the database refuse what a bo
 
   it('cleans privileges planted before the guards existed: unknown scopes dropped and their keys revoked, bad overrides removed', async () => {
     const guards = new InputGuards1780000500000();
+    // Later foreign keys lean on the guards' (id, tenant_id) keys, so the later migration steps aside meanwhile.
+    const later = new RevisionsAndStudies1780000710000();
     const q = t.ctx.db.createQueryRunner();
     try {
+      await later.down(q);
       await guards.down(q);
       const [key] = await q.query(`INSERT INTO api_keys (tenant_id, name, prefix, secret_hash, scopes) VALUES ($1, 'planted', 'cccccccccccc', 'h', '{runs:read,admin}') RETURNING id`, [a.tenantId]);
       await q.query(`UPDATE tenants SET limit_overrides = '{"monthlyRuns": "unlimited", "maxUnits": 3, "bogus": 1, "requestsPerSecond": 0}' WHERE id = $1`, [a.tenantId]);
       await guards.up(q);
+      await later.up(q);
       const [cleaned] = await q.query(`SELECT scopes, revoked_at IS NOT NULL AS revoked FROM api_keys WHERE id = $1`, [key.id]);
       expect(cleaned).toEqual({ scopes: ['runs:read'], revoked: true });
       const [tenant] = await q.query(`SELECT limit_overrides FROM tenants WHERE id = $1`, [a.tenantId]);

@@ -27,7 +27,7 @@ export function revisionsRouter(ctx: AppContext): Router {
   });
 
   r.get('/v1/runs/:runId/revision-diff', auth, authorize('runs.read'), async (req, res) => {
-    res.json(await revisionDiff(ctx, req.principal!.tenantId, String(req.params.runId), String(req.query.base)));
+    res.json(await revisionDiff(ctx, req.principal!.tenantId, String(req.params.runId), req.query.base as string | undefined));
   });
 
   return r;

@@ -54,14 +54,22 @@ function termsChange(after: ObjectiveTerms, before: ObjectiveTerms): ObjectiveTe
 }
 
 /**
- * What changed between two revisions of one chain, over the steps both cover (from the later
+ * What changed between two revisions of one chain (by default, a re-plan and its parent), over the steps both cover (from the later
  * start to the common end): every setpoint column of the schedule export step by step, and the
  * objective terms of both schedules priced by the later revision's spec — its measured initial
  * state, fresh prices and peaks so far — so the two are valued alike.
  */
-export async function revisionDiff(ctx: AppContext, tenantId: string, id: string, baseId: string): Promise<RevisionDiff> {
+export async function revisionDiff(ctx: AppContext, tenantId: string, id: string, baseId: string | undefined): Promise<RevisionDiff> {
   const revision = await getRunSchedule(ctx, tenantId, id);
-  const base = await getRunSchedule(ctx, tenantId, baseId);
+  if (baseId === undefined && !revision.run.parentRunId) {
+    throw new HttpProblem({
+      status: 409,
+      slug: 'no-parent',
+      title: 'The run re-plans no other run',
+      detail: `Run ${id} is the first of its chain: name the revision to compare it with in \`base\`.`,
+    });
+  }
+  const base = await getRunSchedule(ctx, tenantId, baseId ?? revision.run.parentRunId!);
   if (rootOf(revision.run) !== rootOf(base.run)) {
     throw validationProblem([{ pointer: '/query/base', message: `run ${baseId} is not a revision in the chain of run ${id}` }]);
   }

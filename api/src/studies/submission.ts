@@ -12,14 +12,34 @@ import { getStudy } from './reading';
 /** Most field errors one refusal lists, as for a spec. */
 const MAX_REPORTED = 100;
 
-/** Where an error in one combination's spec lies in the request: at the value of the change it is about, else at the grid. */
-function combinationIssue(changes: GridChange[], position: number, picks: number[], error: SpecIssue): SpecIssue {
-  const change = changeBehind(changes, error.pointer);
-  const combination = `combination ${position} (${combinationText(changes, picks)})`;
-  return {
-    pointer: change === null ? '/changes' : `/changes/${change}/values/${picks[change]}`,
-    message: `${combination}: ${error.pointer || 'the spec'} ${error.message}`,
-  };
+/**
+ * The errors of the combinations' specs, each once: at the value of the change it is about (else at
+ * the grid), naming the first combination it occurs in and how many others share it.
+ */
+class CombinationIssues {
+  private readonly found = new Map<string, { pointer: string; first: string; error: SpecIssue; others: number }>();
+
+  constructor(private readonly changes: GridChange[]) {}
+
+  add(position: number, picks: number[], error: SpecIssue) {
+    const change = changeBehind(this.changes, error.pointer);
+    const pointer = change === null ? '/changes' : `/changes/${change}/values/${picks[change]}`;
+    const key = `${pointer} ${error.pointer} ${error.message}`;
+    const seen = this.found.get(key);
+    if (seen) seen.others++;
+    else this.found.set(key, { pointer, first: `combination ${position} (${combinationText(this.changes, picks)})`, error, others: 0 });
+  }
+
+  get size() {
+    return this.found.size;
+  }
+
+  list(): SpecIssue[] {
+    return [...this.found.values()].map(({ pointer, first, error, others }) => ({
+      pointer,
+      message: `${first}${others ? ` and ${others} other${others === 1 ? '' : 's'}` : ''}: ${error.pointer || 'the spec'} ${error.message}`,
+    }));
+  }
 }
 
 /**
@@ -42,18 +62,15 @@ async function checkStudy(ctx: AppContext, tenantId: string, body: unknown) {
   const name = parsed.data.name ?? baseResolution.resolved.name ?? 'Study';
   // Only the facts are kept: a year-long spec times 64 is rebuilt at insert rather than held twice.
   const combinations: RunFacts[] = [];
-  const issues = new Map<string, SpecIssue>();
+  const issues = new CombinationIssues(changes);
   for (let position = 0; position < combinationCount(changes); position++) {
     const picks = combinationAt(changes, position);
     const spec = combinationSpec(base, changes, picks, name);
     const resolution = await resolveSiteSpecForTenant(ctx.db.manager, tenantId, spec);
     if (resolution.ok) combinations.push(runFacts(resolution));
-    else for (const e of resolution.errors) {
-      const issue = combinationIssue(changes, position, picks, e);
-      issues.set(`${issue.pointer} ${e.pointer} ${e.message}`, issue);
-    }
+    else for (const e of resolution.errors) issues.add(position, picks, e);
   }
-  if (issues.size) throw validationProblem([...issues.values()].slice(0, MAX_REPORTED));
+  if (issues.size) throw validationProblem(issues.list().slice(0, MAX_REPORTED));
   return { name: parsed.data.name ?? null, runName: name, base, changes, combinations };
 }
 
