@@ -78,7 +78,7 @@ const measuredStateSchema = z
 const freshSeriesSchema = z
   .strictObject({
     supplyKw: kwPerStep.optional().meta({ description: 'Available supply per remaining step.' }),
-    siteLoadKw: kwPerStep.optional().meta({ description: 'Site load per remaining step (the parent must have a site load).' }),
+    siteLoadKw: kwPerStep.optional().meta({ description: 'Site load per remaining step (a hard load when the parent had none).' }),
     importPrice: pricePerStep.optional(),
     exportPrice: pricePerStep.optional(),
     storeDemandPerHour: z.record(assetKey, kwOrPerStep).optional().meta({ description: 'By store id: its demand per hour.' }),
@@ -107,6 +107,25 @@ export const replanRequestSchema = z
 export type ReplanRequest = z.output<typeof replanRequestSchema>;
 export type MeasuredState = ReplanRequest['state'];
 export type FreshSeries = ReplanRequest['series'];
+
+export const plannedStateSchema = z
+  .object({
+    from: count.meta({ description: "The step of the run's horizon the state is at the start of." }),
+    startsAt: z.iso.datetime({ offset: true }),
+    state: z.object({
+      storage: z.record(z.string(), z.object({ socKwh: z.number() })),
+      stores: z.record(z.string(), z.object({ level: z.number() })),
+      units: z.record(z.string(), z.object({ on: z.boolean(), stepsInState: count, powerKw: z.number().nullable().meta({ description: 'null when off.' }) })),
+      demandCharges: z.record(z.string(), z.object({ peakKw: z.number() })),
+    }),
+  })
+  .meta({
+    description:
+      'The state the schedule leaves at the start of a step, in the shape of a re-plan\'s `state`: what a re-plan from that ' +
+      'step assumes for anything it is not told.',
+  })
+  .register(revisionComponents, { id: 'PlannedState' });
+export type PlannedState = z.infer<typeof plannedStateSchema>;
 
 const revisionEntrySchema = z
   .object({

@@ -3,6 +3,7 @@ import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
 import { strictRouter } from '../lib/strict-router';
 import { runActorOf } from './run-actor';
+import { plannedStateView } from '../runs/planned-state-view';
 import { replanRun } from '../runs/replanning';
 import { revisionDiff } from '../runs/revision-diff';
 import { listRevisions } from '../runs/revisions';
@@ -20,6 +21,10 @@ export function revisionsRouter(ctx: AppContext): Router {
     res.status(202).location(`/v1/runs/${run.id}`);
     if (replayed) res.setHeader('Idempotent-Replayed', 'true');
     res.json(runSummary(run));
+  });
+
+  r.get('/v1/runs/:runId/planned-state', auth, authorize('runs.read'), async (req, res) => {
+    res.json(await plannedStateView(ctx, req.principal!.tenantId, String(req.params.runId), req.query.at as string | undefined));
   });
 
   r.get('/v1/runs/:runId/revisions', auth, authorize('runs.read'), async (req, res) => {

@@ -16,10 +16,10 @@ import { acceptOnce, queueCheckedRun, runFacts, type RunActor } from './submissi
 
 const MAX_NAME = 200;
 
-/** The step of the parent's horizon a re-plan starts at, from a step index or the instant a step starts; else a 400 on `/from`. */
-export function replanStep(from: ReplanRequest['from'], schedule: Schedule, stepMinutes: number): number {
+/** The step of a schedule's horizon a re-plan starts at, from a step index or the instant a step starts; else a 400 on `pointer`. */
+export function replanStep(from: ReplanRequest['from'], schedule: Schedule, stepMinutes: number, pointer = '/from'): number {
   const steps = schedule.timestamps.length;
-  const refuse = (message: string) => validationProblem([{ pointer: '/from', message }]);
+  const refuse = (message: string) => validationProblem([{ pointer, message }]);
   if (typeof from === 'number') {
     if (from >= steps) throw refuse(`step ${from} is past the parent's last step, ${steps - 1}`);
     return from;
@@ -37,7 +37,7 @@ export function replanStep(from: ReplanRequest['from'], schedule: Schedule, step
 }
 
 /** The parent's spec made the engine's input again (its series may have gone since). */
-async function resolveParent(ctx: AppContext, parent: Run): Promise<ResolvedSiteSpec> {
+export async function resolveParent(ctx: AppContext, parent: Run): Promise<ResolvedSiteSpec> {
   const resolution = await resolveSiteSpecForTenant(ctx.db.manager, parent.tenantId, parent.spec);
   if (resolution.ok) return resolution.resolved;
   throw new HttpProblem({

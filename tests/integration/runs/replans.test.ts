@@ -127,6 +127,21 @@ describe('re-plans from measured state', () => {
     expect(child.body.units[0].initial).toEqual({ on: false, stepsInState: 5 });
   });
 
+  it('shows the planned state a re-plan starts from by default', async () => {
+    const expected = {
+      from: 2,
+      startsAt: '2027-03-01T08:00:00+01:00',
+      state: { storage: { 'bess-1': { socKwh: 200 } }, stores: {}, units: { 'gen-1': { on: false, stepsInState: 5, powerKw: null } }, demandCharges: {} },
+    };
+    expect((await get(`/v1/runs/${parentId}/planned-state?at=2`).expect(200)).body).toEqual(expected);
+    expect((await get(`/v1/runs/${parentId}/planned-state?at=${encodeURIComponent('2027-03-01T07:00:00Z')}`).expect(200)).body).toEqual(expected);
+    // By default the step under way now; the horizon lies wholly before or after the clock, so it is the first or the last.
+    const byDefault = await get(`/v1/runs/${parentId}/planned-state`).expect(200);
+    expect(byDefault.body.from).toBe(Date.now() < Date.parse(spec.horizon.start) ? 0 : 3);
+    const refused = await get(`/v1/runs/${parentId}/planned-state?at=${encodeURIComponent('2027-03-01T07:10:00Z')}`).expect(400);
+    expect(refused.body.errors[0].pointer).toBe('/query/at');
+  });
+
   it('lists the chain and re-plans a re-plan, counting steps in the first horizon', async () => {
     const res = await post(`/v1/runs/${replanId}/replans`, { from: 1, state: { storage: { 'bess-1': { socKwh: 10 } } } }).expect(202);
     expect(res.body.revision).toEqual({ parentId: replanId, rootId: parentId, fromStep: 1, rootStep: 3 });
