@@ -1,0 +1,129 @@
+import { Link } from 'react-router-dom';
+import { Bar, CartesianGrid, ComposedChart, Legend, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
+import type { ObjectiveTerms } from '@gridwright/shared/run-result';
+import type { StudyComparison } from '@gridwright/shared/studies';
+import { AdvisoryNote } from '@/components/advisory-note';
+import { Table, Td, Th } from '@/components/data-table';
+import { StatusPill } from '@/components/status-pill';
+import { chartColors, seriesPalette } from '@/lib/chart-colors';
+import { formatNumber } from '@/lib/format';
+import { valueLabel } from '../lib/grid-form';
+
+const TERMS: { key: keyof ObjectiveTerms; label: string }[] = [
+  { key: 'energy', label: 'Energy' },
+  { key: 'noLoad', label: 'No-load' },
+  { key: 'starts', label: 'Starts' },
+  { key: 'demandCharges', label: 'Demand charges' },
+  { key: 'penalties', label: 'Penalties' },
+  { key: 'cycleCost', label: 'Cycle cost' },
+];
+const tick = { fontSize: 11, fill: '#6b6761' };
+
+const combinationName = (c: StudyComparison, values: unknown[]) => c.changes.map((ch, i) => `${ch.label}=${valueLabel(values[i])}`).join(', ');
+
+/** Objective and its terms per combination: the terms stacked (values up, costs down), the objective as a dot. */
+function ComparisonChart({ comparison }: { comparison: StudyComparison }) {
+  const data = comparison.rows
+    .filter((r) => r.objective !== null)
+    .map((r) => ({ name: combinationName(comparison, r.values), objective: r.objective, ...r.objectiveTerms }));
+  const used = TERMS.filter((t) => data.some((d) => Math.abs((d[t.key] as number | undefined) ?? 0) > 1e-9));
+  return (
+    <figure className="rounded-lg border border-ash-200 bg-white p-3" aria-label="Objective and its terms by combination">
+      <figcaption className="mb-2 flex items-baseline justify-between text-[13px] font-semibold text-ash-800">
+        <span>Objective and its terms by combination</span>
+        <span className="text-[11px] font-normal text-ash-500">money in the tenant's currency; value +, cost −</span>
+      </figcaption>
+      <div style={{ height: 260 }}>
+        <ResponsiveContainer width="100%" height="100%">
+          <ComposedChart data={data} stackOffset="sign" margin={{ top: 4, right: 8, bottom: 0, left: 0 }}>
+            <CartesianGrid stroke={chartColors.grid} vertical={false} />
+            <XAxis dataKey="name" tick={tick} interval={0} height={40} />
+            <YAxis width={56} tick={tick} />
+            <ReferenceLine y={0} stroke={chartColors.grey} />
+            <Tooltip formatter={(v) => formatNumber(Number(v))} />
+            <Legend wrapperStyle={{ fontSize: 11 }} />
+            {used.map((t, i) => (
+              <Bar key={t.key} dataKey={t.key} name={t.label} stackId="terms" fill={seriesPalette[(i + 1) % seriesPalette.length]} fillOpacity={0.75} isAnimationActive={false} />
+            ))}
+            <Scatter dataKey="objective" name="Objective" fill={chartColors.accent} isAnimationActive={false} />
+          </ComposedChart>
+        </ResponsiveContainer>
+      </div>
+    </figure>
+  );
+}
+
+/** The study's runs side by side: a table of every figure and a chart of the money. */
+export function ComparisonView({ comparison }: { comparison: StudyComparison }) {
+  const charges = [...new Set(comparison.rows.flatMap((r) => Object.keys(r.demandChargePeaks)))];
+  const anySchedule = comparison.rows.some((r) => r.objective !== null);
+  return (
+    <div className="space-y-3">
+      {anySchedule && <ComparisonChart comparison={comparison} />}
+      <Table label="Comparison">
+        <thead>
+          <tr>
+            {comparison.changes.map((c) => (
+              <Th key={c.pointer}>{c.label}</Th>
+            ))}
+            <Th>Status</Th>
+            <Th className="text-right">Objective</Th>
+            {TERMS.map((t) => (
+              <Th key={t.key} className="text-right">
+                {t.label}
+              </Th>
+            ))}
+            <Th className="text-right">Import kWh</Th>
+            <Th className="text-right">Export kWh</Th>
+            <Th className="text-right">Curtailed kWh</Th>
+            <Th className="text-right">Unserved kWh</Th>
+            <Th className="text-right">Starts</Th>
+            {charges.map((c) => (
+              <Th key={c} className="text-right">
+                Peak {c} kW
+              </Th>
+            ))}
+            <Th>Run</Th>
+          </tr>
+        </thead>
+        <tbody>
+          {comparison.rows.map((r) => (
+            <tr key={r.position} className={r.position === comparison.best ? 'bg-kiln-50' : 'hover:bg-ash-50'}>
+              {r.values.map((v, i) => (
+                <Td key={i} className="font-mono text-xs">
+                  {valueLabel(v)}
+                </Td>
+              ))}
+              <Td>
+                <StatusPill status={r.status} />
+                {r.position === comparison.best && <span className="ml-1.5 text-[11px] font-semibold text-kiln-700">best</span>}
+              </Td>
+              <Td className="text-right font-mono text-xs font-semibold">{formatNumber(r.objective)}</Td>
+              {TERMS.map((t) => (
+                <Td key={t.key} className="text-right font-mono text-xs">
+                  {formatNumber(r.objectiveTerms?.[t.key])}
+                </Td>
+              ))}
+              <Td className="text-right font-mono text-xs">{formatNumber(r.importKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatNumber(r.exportKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatNumber(r.curtailedKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatNumber(r.unservedKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{r.starts ?? '—'}</Td>
+              {charges.map((c) => (
+                <Td key={c} className="text-right font-mono text-xs">
+                  {formatNumber(r.demandChargePeaks[c])}
+                </Td>
+              ))}
+              <Td>
+                <Link to={`/runs/${r.runId}`} className="text-xs text-kiln-700 hover:underline">
+                  Open run
+                </Link>
+              </Td>
+            </tr>
+          ))}
+        </tbody>
+      </Table>
+      <AdvisoryNote />
+    </div>
+  );
+}
