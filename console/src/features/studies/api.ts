@@ -47,17 +47,19 @@ export function getStudyComparison(id: string): Promise<StudyComparison> {
   return unwrap(api.GET('/v1/studies/{studyId}/comparison', { params: { path: { studyId: id } } })) as Promise<StudyComparison>;
 }
 
-/** The comparison follows the study: refetched while it runs, then once more when it settles. */
-export function getStudyComparisonQueryOptions(id: string, running: boolean) {
+const unsettled = (c: StudyComparison | undefined) => c?.rows.some((r) => r.status === 'queued' || r.status === 'running') ?? false;
+
+/** The comparison fills in as runs end: refetched while any of its rows still waits for its run. */
+export function getStudyComparisonQueryOptions(id: string) {
   return queryOptions({
-    queryKey: [...studiesQueryKey, 'comparison', id, running],
+    queryKey: [...studiesQueryKey, 'comparison', id],
     queryFn: () => getStudyComparison(id),
-    refetchInterval: running ? 2000 : false,
+    refetchInterval: (q) => (unsettled(q.state.data) ? 2000 : false),
   });
 }
 
-export function useStudyComparison(id: string, running: boolean) {
-  return useQuery(getStudyComparisonQueryOptions(id, running));
+export function useStudyComparison(id: string) {
+  return useQuery(getStudyComparisonQueryOptions(id));
 }
 
 export function createStudy(body: StudyRequest): Promise<StudyView> {

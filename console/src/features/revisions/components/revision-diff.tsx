@@ -9,16 +9,13 @@ import { ProblemAlert } from '@/components/problem-alert';
 import { Loading } from '@/components/states';
 import { chartColors } from '@/lib/chart-colors';
 import { formatDateTime, formatNumber } from '@/lib/format';
+import { formatSolverChange, formatSolverFigure } from '@/lib/solver-figures';
 import { useRevisionDiff } from '../api';
 import { changedFirst, changedSteps, setpointPoints, TERM_LABELS } from '../lib/diff-rows';
 
 const STEP_ROWS = 200;
 const tick = { fontSize: 11, fill: '#6b6761' };
 
-function signed(n: number) {
-  if (Math.abs(n) < 5e-7) return '0';
-  return `${n > 0 ? '+' : '−'}${formatNumber(Math.abs(n))}`;
-}
 
 function ObjectiveTable({ diff }: { diff: RevisionDiff }) {
   const { base, revision, change } = diff.objective;
@@ -37,17 +34,17 @@ function ObjectiveTable({ diff }: { diff: RevisionDiff }) {
         {terms.map((term) => (
           <tr key={term}>
             <Td>{TERM_LABELS[term]}</Td>
-            <Td className="text-right font-mono text-xs">{formatNumber(base.terms[term])}</Td>
-            <Td className="text-right font-mono text-xs">{formatNumber(revision.terms[term])}</Td>
-            <Td className="text-right font-mono text-xs">{signed(change.terms[term])}</Td>
+            <Td className="text-right font-mono text-xs">{formatSolverFigure(base.terms[term])}</Td>
+            <Td className="text-right font-mono text-xs">{formatSolverFigure(revision.terms[term])}</Td>
+            <Td className="text-right font-mono text-xs">{formatSolverChange(change.terms[term])}</Td>
           </tr>
         ))}
         <tr className="font-semibold">
           <Td>Objective over these steps</Td>
-          <Td className="text-right font-mono text-xs">{formatNumber(base.total)}</Td>
-          <Td className="text-right font-mono text-xs">{formatNumber(revision.total)}</Td>
+          <Td className="text-right font-mono text-xs">{formatSolverFigure(base.total)}</Td>
+          <Td className="text-right font-mono text-xs">{formatSolverFigure(revision.total)}</Td>
           <Td className="text-right font-mono text-xs" >
-            <span data-testid="objective-change">{signed(change.total)}</span>
+            <span data-testid="objective-change">{formatSolverChange(change.total)}</span>
           </Td>
         </tr>
       </tbody>
@@ -131,9 +128,9 @@ export function RevisionDiffPanel({ runId, baseId }: { runId: string; baseId: st
                       <tr key={r.step}>
                         <Td className="text-right font-mono text-xs">{r.step}</Td>
                         <Td className="whitespace-nowrap text-xs">{formatDateTime(r.time)}</Td>
-                        <Td className="text-right font-mono text-xs">{formatNumber(r.base)}</Td>
-                        <Td className="text-right font-mono text-xs">{formatNumber(r.revision)}</Td>
-                        <Td className="text-right font-mono text-xs">{signed(r.change)}</Td>
+                        <Td className="text-right font-mono text-xs">{formatSolverFigure(r.base)}</Td>
+                        <Td className="text-right font-mono text-xs">{formatSolverFigure(r.revision)}</Td>
+                        <Td className="text-right font-mono text-xs">{formatSolverChange(r.change)}</Td>
                       </tr>
                     ))}
                   </tbody>

@@ -1,21 +1,21 @@
 import { Link } from 'react-router-dom';
-import { Bar, CartesianGrid, ComposedChart, Legend, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
+import { Bar, CartesianGrid, ComposedChart, Legend, Line, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { ObjectiveTerms } from '@gridwright/shared/run-result';
 import type { StudyComparison } from '@gridwright/shared/studies';
 import { AdvisoryNote } from '@/components/advisory-note';
 import { Table, Td, Th } from '@/components/data-table';
 import { StatusPill } from '@/components/status-pill';
 import { chartColors, seriesPalette } from '@/lib/chart-colors';
-import { formatNumber } from '@/lib/format';
+import { formatSolverFigure } from '@/lib/solver-figures';
 import { valueLabel } from '../lib/grid-form';
 
 const TERMS: { key: keyof ObjectiveTerms; label: string }[] = [
   { key: 'energy', label: 'Energy' },
-  { key: 'noLoad', label: 'No-load' },
-  { key: 'starts', label: 'Starts' },
+  { key: 'noLoad', label: 'No-load costs' },
+  { key: 'starts', label: 'Start costs' },
   { key: 'demandCharges', label: 'Demand charges' },
   { key: 'penalties', label: 'Penalties' },
-  { key: 'cycleCost', label: 'Cycle cost' },
+  { key: 'cycleCost', label: 'Cycle costs' },
 ];
 const tick = { fontSize: 11, fill: '#6b6761' };
 
@@ -40,12 +40,12 @@ function ComparisonChart({ comparison }: { comparison: StudyComparison }) {
             <XAxis dataKey="name" tick={tick} interval={0} height={40} />
             <YAxis width={56} tick={tick} />
             <ReferenceLine y={0} stroke={chartColors.grey} />
-            <Tooltip formatter={(v) => formatNumber(Number(v))} />
+            <Tooltip formatter={(v) => formatSolverFigure(Number(v))} />
             <Legend wrapperStyle={{ fontSize: 11 }} />
             {used.map((t, i) => (
               <Bar key={t.key} dataKey={t.key} name={t.label} stackId="terms" fill={seriesPalette[(i + 1) % seriesPalette.length]} fillOpacity={0.75} isAnimationActive={false} />
             ))}
-            <Scatter dataKey="objective" name="Objective" fill={chartColors.accent} isAnimationActive={false} />
+            <Line dataKey="objective" name="Objective" stroke={chartColors.accent} strokeWidth={0} dot={{ r: 5, fill: chartColors.accent }} legendType="circle" isAnimationActive={false} />
           </ComposedChart>
         </ResponsiveContainer>
       </div>
@@ -77,7 +77,7 @@ export function ComparisonView({ comparison }: { comparison: StudyComparison }) 
             <Th className="text-right">Export kWh</Th>
             <Th className="text-right">Curtailed kWh</Th>
             <Th className="text-right">Unserved kWh</Th>
-            <Th className="text-right">Starts</Th>
+            <Th className="text-right">Unit starts</Th>
             {charges.map((c) => (
               <Th key={c} className="text-right">
                 Peak {c} kW
@@ -98,20 +98,20 @@ export function ComparisonView({ comparison }: { comparison: StudyComparison }) 
                 <StatusPill status={r.status} />
                 {r.position === comparison.best && <span className="ml-1.5 text-[11px] font-semibold text-kiln-700">best</span>}
               </Td>
-              <Td className="text-right font-mono text-xs font-semibold">{formatNumber(r.objective)}</Td>
+              <Td className="text-right font-mono text-xs font-semibold">{formatSolverFigure(r.objective)}</Td>
               {TERMS.map((t) => (
                 <Td key={t.key} className="text-right font-mono text-xs">
-                  {formatNumber(r.objectiveTerms?.[t.key])}
+                  {formatSolverFigure(r.objectiveTerms?.[t.key])}
                 </Td>
               ))}
-              <Td className="text-right font-mono text-xs">{formatNumber(r.importKwh)}</Td>
-              <Td className="text-right font-mono text-xs">{formatNumber(r.exportKwh)}</Td>
-              <Td className="text-right font-mono text-xs">{formatNumber(r.curtailedKwh)}</Td>
-              <Td className="text-right font-mono text-xs">{formatNumber(r.unservedKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatSolverFigure(r.importKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatSolverFigure(r.exportKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatSolverFigure(r.curtailedKwh)}</Td>
+              <Td className="text-right font-mono text-xs">{formatSolverFigure(r.unservedKwh)}</Td>
               <Td className="text-right font-mono text-xs">{r.starts ?? '—'}</Td>
               {charges.map((c) => (
                 <Td key={c} className="text-right font-mono text-xs">
-                  {formatNumber(r.demandChargePeaks[c])}
+                  {formatSolverFigure(r.demandChargePeaks[c])}
                 </Td>
               ))}
               <Td>

@@ -16,7 +16,7 @@ export function StudyDetailRoute() {
   const { studyId = '' } = useParams();
   const study = useStudy(studyId);
   const running = study.data?.status === 'running';
-  const comparison = useStudyComparison(studyId, running);
+  const comparison = useStudyComparison(studyId);
   const cancel = useCancelStudy(studyId);
   const canCancel = usePermission('runs.cancel');
   if (study.isPending) return <Loading label="Loading the study…" />;
