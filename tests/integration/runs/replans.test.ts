@@ -51,7 +51,7 @@ describe('re-plans from measured state', () => {
   let workers: Awaited<ReturnType<typeof startWorkers>>;
   let parentId: string;
   let replanId: string;
-  const post = (path: string, body: unknown) => request(t.app).post(path).set(bearer(key)).send(body);
+  const post = (path: string, body: object) => request(t.app).post(path).set(bearer(key)).send(body);
   const get = (path: string) => request(t.app).get(path).set(bearer(key));
 
   beforeAll(async () => {
@@ -92,6 +92,8 @@ describe('re-plans from measured state', () => {
     const done = await waitForRun(t.app, key, replanId);
     expect(runSchema.safeParse(done).error).toBeUndefined();
     expect(done.status).toBe('succeeded');
+    // The polled read (a prepared statement, kept once final) shows the chain like the answer to the POST.
+    expect(done.revision).toEqual(res.body.revision);
     expect(done.objective.value).toBeCloseTo(-80, 6);
     expect(done.schedule.timestamps).toEqual(['2027-03-01T08:00:00+01:00', '2027-03-01T09:00:00+01:00']);
     expect(done.schedule.units['gen-1'].on).toEqual([1, 1]);
@@ -185,7 +187,7 @@ describe('re-plans from measured state', () => {
   });
 
   it('names the field of a measured value or a re-plan time the parent cannot take', async () => {
-    const refused = async (body: unknown, pointer: string, message: RegExp) => {
+    const refused = async (body: object, pointer: string, message: RegExp) => {
       const res = await post(`/v1/runs/${parentId}/replans`, body);
       expect(res.status, JSON.stringify(res.body)).toBe(400);
       expect(res.headers['content-type']).toMatch(/application\/problem\+json/);

@@ -22,7 +22,7 @@ describe('studies over a grid of changes', () => {
   let key: string;
   let tenantId: string;
   let workers: Awaited<ReturnType<typeof startWorkers>> | null = null;
-  const post = (path: string, body: unknown) => request(t.app).post(path).set(bearer(key)).send(body);
+  const post = (path: string, body: object) => request(t.app).post(path).set(bearer(key)).send(body);
   const get = (path: string) => request(t.app).get(path).set(bearer(key));
 
   beforeAll(async () => {
@@ -101,7 +101,7 @@ describe('studies over a grid of changes', () => {
     expect(thirdSpec.body.name).toBe('Sizing · battery kWh=400, import price=0.25');
 
     workers = await startWorkers(t.ctx, { concurrency: 2 });
-    const runs = [];
+    const runs: any[] = [];
     for (const r of res.body.runs) runs.push(await waitForRun(t.app, key, r.runId));
     expect(runs.map((r) => r.status)).toEqual(['succeeded', 'succeeded', 'succeeded', 'succeeded']);
 
