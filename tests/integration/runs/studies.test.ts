@@ -86,7 +86,10 @@ describe('studies over a grid of changes', () => {
   });
 
   it('runs a 2 × 2 grid on the workers and compares exactly what its four runs report', async () => {
+    const usedBefore = (await get('/v1/usage').expect(200)).body.quota.runs.used;
     const res = await post('/v1/studies', { name: 'Sizing', baseSpec: smallSpec(), changes: grid }).expect(202);
+    // Each of the four runs counts against the monthly runs quota.
+    expect((await get('/v1/usage').expect(200)).body.quota.runs.used).toBe(usedBefore + 4);
     expect(studySchema.safeParse(res.body).error).toBeUndefined();
     expect(res.headers.location).toBe(`/v1/studies/${res.body.id}`);
     // The last change varies fastest.
