@@ -136,6 +136,10 @@ describe('re-plans and studies in the console', () => {
     await expect.poll(() => comparison.getByText('succeeded').count(), { timeout: 30_000 }).toBe(2);
     await expect(comparison.getByRole('link', { name: 'Open run' }).count()).resolves.toBe(2);
     await page.getByRole('figure', { name: 'Objective and its terms by combination' }).getByRole('application').waitFor();
+    const figures = page.getByRole('figure', { name: 'Energy and equipment figures by combination' });
+    await figures.getByLabel('Figure').selectOption('curtailed');
+    await figures.getByText('Supply curtailed by combination').waitFor();
+    await figures.getByRole('application').waitFor();
     await screenshot(page, 'study-detail');
 
     // The comparison's figures are the runs' own.

@@ -1,8 +1,10 @@
+import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Bar, CartesianGrid, ComposedChart, Legend, Line, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { ObjectiveTerms } from '@gridwright/shared/run-result';
-import type { StudyComparison } from '@gridwright/shared/studies';
+import type { ComparisonRow, StudyComparison } from '@gridwright/shared/studies';
 import { AdvisoryNote } from '@/components/advisory-note';
+import { SelectField } from '@/components/field';
 import { Table, Td, Th } from '@/components/data-table';
 import { StatusPill } from '@/components/status-pill';
 import { chartColors, seriesPalette } from '@/lib/chart-colors';
@@ -53,13 +55,71 @@ function ComparisonChart({ comparison }: { comparison: StudyComparison }) {
   );
 }
 
-/** The study's runs side by side: a table of every figure and a chart of the money. */
+interface Metric {
+  id: string;
+  label: string;
+  unit: string;
+  of: (row: ComparisonRow) => number | null;
+}
+
+/** The energy and equipment figures a study compares besides money, each a chart of its own. */
+function metricsOf(charges: string[]): Metric[] {
+  return [
+    { id: 'import', label: 'Energy imported', unit: 'kWh', of: (r) => r.importKwh },
+    { id: 'export', label: 'Energy exported', unit: 'kWh', of: (r) => r.exportKwh },
+    { id: 'curtailed', label: 'Supply curtailed', unit: 'kWh', of: (r) => r.curtailedKwh },
+    { id: 'unserved', label: 'Load unserved', unit: 'kWh', of: (r) => r.unservedKwh },
+    { id: 'starts', label: 'Unit starts', unit: 'starts', of: (r) => r.starts },
+    ...charges.map((c) => ({ id: `peak:${c}`, label: `Demand-charge peak, ${c}`, unit: 'kW', of: (r: ComparisonRow) => r.demandChargePeaks[c] ?? null })),
+  ];
+}
+
+/** One figure per combination, chosen from the list: imports, curtailment, starts, peaks. */
+function MetricChart({ comparison, metrics }: { comparison: StudyComparison; metrics: Metric[] }) {
+  const [chosen, setChosen] = useState(metrics[0].id);
+  const metric = metrics.find((m) => m.id === chosen) ?? metrics[0];
+  const data = comparison.rows.filter((r) => r.objective !== null).map((r) => ({ name: combinationName(comparison, r.values), value: metric.of(r) }));
+  return (
+    <figure className="rounded-lg border border-ash-200 bg-white p-3" aria-label="Energy and equipment figures by combination">
+      <figcaption className="mb-2 flex flex-wrap items-end justify-between gap-2 text-[13px] font-semibold text-ash-800">
+        <span>
+          {metric.label} by combination <span className="text-[11px] font-normal text-ash-500">({metric.unit})</span>
+        </span>
+        <SelectField label="Figure" className="w-64 font-normal" value={metric.id} onChange={(e) => setChosen(e.target.value)}>
+          {metrics.map((m) => (
+            <option key={m.id} value={m.id}>
+              {m.label} ({m.unit})
+            </option>
+          ))}
+        </SelectField>
+      </figcaption>
+      <div style={{ height: 220 }}>
+        <ResponsiveContainer width="100%" height="100%">
+          <ComposedChart data={data} margin={{ top: 4, right: 8, bottom: 0, left: 0 }}>
+            <CartesianGrid stroke={chartColors.grid} vertical={false} />
+            <XAxis dataKey="name" tick={tick} interval={0} height={40} />
+            <YAxis width={64} tick={tick} />
+            <Tooltip formatter={(v) => `${formatSolverFigure(Number(v))} ${metric.unit}`} />
+            <Bar dataKey="value" name={`${metric.label} (${metric.unit})`} fill={chartColors.ink} fillOpacity={0.8} isAnimationActive={false} />
+          </ComposedChart>
+        </ResponsiveContainer>
+      </div>
+    </figure>
+  );
+}
+
+/** The study's runs side by side: a table of every figure, a chart of the money and one of the other figures. */
 export function ComparisonView({ comparison }: { comparison: StudyComparison }) {
   const charges = [...new Set(comparison.rows.flatMap((r) => Object.keys(r.demandChargePeaks)))];
   const anySchedule = comparison.rows.some((r) => r.objective !== null);
   return (
     <div className="space-y-3">
-      {anySchedule && <ComparisonChart comparison={comparison} />}
+      {anySchedule && (
+        <div className="grid gap-3 2xl:grid-cols-2">
+          <ComparisonChart comparison={comparison} />
+          <MetricChart comparison={comparison} metrics={metricsOf(charges)} />
+        </div>
+      )}
       <Table label="Comparison">
         <thead>
           <tr>
