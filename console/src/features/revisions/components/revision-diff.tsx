@@ -1,7 +1,6 @@
 import { useMemo, useState } from 'react';
 import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { RevisionDiff } from '@gridwright/shared/revisions';
-import type { ObjectiveTerms } from '@gridwright/shared/run-result';
 import { AdvisoryNote } from '@/components/advisory-note';
 import { Table, Td, Th } from '@/components/data-table';
 import { Panel } from '@/components/page-header';
@@ -9,9 +8,10 @@ import { ProblemAlert } from '@/components/problem-alert';
 import { Loading } from '@/components/states';
 import { chartColors } from '@/lib/chart-colors';
 import { formatDateTime, formatNumber } from '@/lib/format';
+import { OBJECTIVE_TERMS } from '@/lib/objective-terms';
 import { formatSolverChange, formatSolverFigure } from '@/lib/solver-figures';
 import { useRevisionDiff } from '../api';
-import { changedFirst, changedSteps, setpointPoints, TERM_LABELS } from '../lib/diff-rows';
+import { changedFirst, changedSteps, setpointPoints } from '../lib/diff-rows';
 
 const STEP_ROWS = 200;
 const tick = { fontSize: 11, fill: '#6b6761' };
@@ -19,7 +19,6 @@ const tick = { fontSize: 11, fill: '#6b6761' };
 
 function ObjectiveTable({ diff }: { diff: RevisionDiff }) {
   const { base, revision, change } = diff.objective;
-  const terms = Object.keys(TERM_LABELS) as (keyof ObjectiveTerms)[];
   return (
     <Table label="Objective terms compared">
       <thead>
@@ -31,9 +30,11 @@ function ObjectiveTable({ diff }: { diff: RevisionDiff }) {
         </tr>
       </thead>
       <tbody>
-        {terms.map((term) => (
+        {OBJECTIVE_TERMS.map(({ key: term, label, covers }) => (
           <tr key={term}>
-            <Td>{TERM_LABELS[term]}</Td>
+            <Td>
+              {label} <span className="text-xs text-ash-500">({covers})</span>
+            </Td>
             <Td className="text-right font-mono text-xs">{formatSolverFigure(base.terms[term])}</Td>
             <Td className="text-right font-mono text-xs">{formatSolverFigure(revision.terms[term])}</Td>
             <Td className="text-right font-mono text-xs">{formatSolverChange(change.terms[term])}</Td>

@@ -1,16 +1,6 @@
 import type { RevisionDiff } from '@gridwright/shared/revisions';
-import type { ObjectiveTerms } from '@gridwright/shared/run-result';
 
 type Setpoint = RevisionDiff['setpoints'][number];
-
-export const TERM_LABELS: Record<keyof ObjectiveTerms, string> = {
-  energy: 'Energy (import, export, unit values and costs)',
-  noLoad: 'No-load costs',
-  starts: 'Start costs',
-  demandCharges: 'Demand charges',
-  penalties: 'Penalties (unserved, shortfalls)',
-  cycleCost: 'Battery cycle costs',
-};
 
 /** Changed setpoints first, the most changed steps first; unchanged ones after, in the export's order. */
 export function changedFirst(setpoints: Setpoint[]): Setpoint[] {

@@ -1,24 +1,16 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Bar, CartesianGrid, ComposedChart, Legend, Line, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
-import type { ObjectiveTerms } from '@gridwright/shared/run-result';
 import type { ComparisonRow, StudyComparison } from '@gridwright/shared/studies';
 import { AdvisoryNote } from '@/components/advisory-note';
 import { SelectField } from '@/components/field';
 import { Table, Td, Th } from '@/components/data-table';
 import { StatusPill } from '@/components/status-pill';
 import { chartColors, seriesPalette } from '@/lib/chart-colors';
+import { OBJECTIVE_TERMS } from '@/lib/objective-terms';
 import { formatSolverFigure } from '@/lib/solver-figures';
 import { valueLabel } from '../lib/grid-form';
 
-const TERMS: { key: keyof ObjectiveTerms; label: string }[] = [
-  { key: 'energy', label: 'Energy' },
-  { key: 'noLoad', label: 'No-load costs' },
-  { key: 'starts', label: 'Start costs' },
-  { key: 'demandCharges', label: 'Demand charges' },
-  { key: 'penalties', label: 'Penalties' },
-  { key: 'cycleCost', label: 'Cycle costs' },
-];
 const tick = { fontSize: 11, fill: '#6b6761' };
 
 const combinationName = (c: StudyComparison, values: unknown[]) => c.changes.map((ch, i) => `${ch.label}=${valueLabel(values[i])}`).join(', ');
@@ -28,7 +20,7 @@ function ComparisonChart({ comparison }: { comparison: StudyComparison }) {
   const data = comparison.rows
     .filter((r) => r.objective !== null)
     .map((r) => ({ name: combinationName(comparison, r.values), objective: r.objective, ...r.objectiveTerms }));
-  const used = TERMS.filter((t) => data.some((d) => Math.abs((d[t.key] as number | undefined) ?? 0) > 1e-9));
+  const used = OBJECTIVE_TERMS.filter((t) => data.some((d) => Math.abs((d[t.key] as number | undefined) ?? 0) > 1e-9));
   return (
     <figure className="rounded-lg border border-ash-200 bg-white p-3" aria-label="Objective and its terms by combination">
       <figcaption className="mb-2 flex items-baseline justify-between text-[13px] font-semibold text-ash-800">
@@ -128,7 +120,7 @@ export function ComparisonView({ comparison }: { comparison: StudyComparison }) 
             ))}
             <Th>Status</Th>
             <Th className="text-right">Objective</Th>
-            {TERMS.map((t) => (
+            {OBJECTIVE_TERMS.map((t) => (
               <Th key={t.key} className="text-right">
                 {t.label}
               </Th>
@@ -159,7 +151,7 @@ export function ComparisonView({ comparison }: { comparison: StudyComparison }) 
                 {r.position === comparison.best && <span className="ml-1.5 text-[11px] font-semibold text-kiln-700">best</span>}
               </Td>
               <Td className="text-right font-mono text-xs font-semibold">{formatSolverFigure(r.objective)}</Td>
-              {TERMS.map((t) => (
+              {OBJECTIVE_TERMS.map((t) => (
                 <Td key={t.key} className="text-right font-mono text-xs">
                   {formatSolverFigure(r.objectiveTerms?.[t.key])}
                 </Td>
