@@ -8,7 +8,7 @@ import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputGuards1780000500000 } from '../../api/src/db/migrations/1780000500000-input-guards';
-import { RevisionsAndStudies1780000710000 } from '../../api/src/db/migrations/1780000710000-revisions-and-studies';
+import { RevisionsAndStudies1780000770000 } from '../../api/src/db/migrations/1780000770000-revisions-and-studies';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { updateExportProfile } from '../../api/src/services/export-profiles';
 import { changeMemberRole, inviteMember } from '../../api/src/services/members';
@@ -249,7 +249,7 @@ describe('API3 behind the routes: the services and the database refuse what a bo
   it('cleans privileges planted before the guards existed: unknown scopes dropped and their keys revoked, bad overrides removed', async () => {
     const guards = new InputGuards1780000500000();
     // Later foreign keys lean on the guards' (id, tenant_id) keys, so the later migration steps aside meanwhile.
-    const later = new RevisionsAndStudies1780000710000();
+    const later = new RevisionsAndStudies1780000770000();
     const q = t.ctx.db.createQueryRunner();
     try {
       await later.down(q);

@@ -11,8 +11,8 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  *   in the grid, once per place, inside the run's own tenant. The limits are the service's
  *   (shared/src/studies.ts), read when this runs: changing them needs a new migration.
  */
-export class RevisionsAndStudies1780000710000 implements MigrationInterface {
-  name = 'RevisionsAndStudies1780000710000';
+export class RevisionsAndStudies1780000770000 implements MigrationInterface {
+  name = 'RevisionsAndStudies1780000770000';
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`
