@@ -1,8 +1,8 @@
 // The realistic study: a 15-minute year of the bench's grid-tied site × 8 variants (four battery sizes ×
 // two export tariffs), through the study service and real worker processes on a throwaway PostgreSQL,
 // as `POST /v1/studies` would queue it. Prints the study's progress as the API reports it, and the wall
-// time from creation to the last run's end. Keeps both cores busy for minutes: run it alone, as
-// `flock /work/.heavy.lock npx tsx tests/bench/study-year.ts [--days N] [--workers N]`.
+// time from creation to the last run's end. Keeps both cores busy for minutes, so run it on an
+// otherwise idle machine: `npx tsx tests/bench/study-year.ts [--days N] [--workers N]`.
 import { mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
