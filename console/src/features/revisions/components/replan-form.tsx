@@ -8,7 +8,7 @@ import { Loading } from '@/components/states';
 import { isProblem } from '@/lib/api-problem';
 import { formatDateTime } from '@/lib/format';
 import { useCreateReplan, usePlannedState } from '../api';
-import { formFromPlan, pointers, requestFromForm, type ReplanFormValues } from '../lib/replan-form';
+import { formFromPlan, FRESH_SERIES, pointers, requestFromForm, type ReplanFormValues } from '../lib/replan-form';
 
 /** The step under way now, held to the horizon: where an operator usually re-plans from. */
 function stepUnderWay(timestamps: string[]): number {
@@ -85,14 +85,14 @@ function MeasuredFields({ runId, from, planned }: { runId: string; from: number;
         </fieldset>
       )}
       <fieldset className="grid gap-3 lg:grid-cols-2">
-        <legend className="mb-1 text-xs font-semibold uppercase tracking-wide text-ash-500">Fresh forecasts (optional, one value per remaining step)</legend>
-        {(['supplyKw', 'siteLoadKw'] as const).map((field) => {
+        <legend className="mb-1 text-xs font-semibold uppercase tracking-wide text-ash-500">Fresh forecasts and prices (optional, one value per remaining step)</legend>
+        {FRESH_SERIES.map(({ field, label }) => {
           const id = `replan-${field}`;
-          const error = errorAt(pointers[field]);
+          const error = errorAt(pointers.series(field));
           return (
             <div key={field}>
               <label htmlFor={id} className="mb-1 block text-xs font-medium text-ash-700">
-                {field === 'supplyKw' ? 'Available supply (kW)' : 'Site load (kW)'}
+                {label}
               </label>
               <textarea
                 id={id}
@@ -100,8 +100,8 @@ function MeasuredFields({ runId, from, planned }: { runId: string; from: number;
                 className={textarea}
                 placeholder="Empty: keep the plan's forecast. Values separated by commas, spaces or lines."
                 aria-invalid={error ? true : undefined}
-                value={values[field]}
-                onChange={(e) => setValues((v) => ({ ...v, [field]: e.target.value }))}
+                value={values.series[field]}
+                onChange={(e) => setValues((v) => ({ ...v, series: { ...v.series, [field]: e.target.value } }))}
               />
               {error && <p className="mt-1 text-xs text-red-700">{error}</p>}
             </div>

@@ -32,7 +32,8 @@ describe('the re-plan form', () => {
     form.numbers[pointers.soc('bess/a')] = '40';
     form.unitsOn['gen-1'] = false;
     form.numbers[pointers.stepsInState('gen-1')] = '0';
-    form.siteLoadKw = '210, 205\n198';
+    form.series.siteLoadKw = '210, 205\n198';
+    form.series.importPrice = '0.31 0.29 0.30';
     expect(requestFromForm(8, planned, form)).toEqual({
       from: 8,
       state: {
@@ -41,7 +42,7 @@ describe('the re-plan form', () => {
         units: { 'gen-1': { on: false, stepsInState: 0 }, 'gen-2': { on: false, stepsInState: 8 } },
         demandCharges: { monthly: { peakKw: 320.811 } },
       },
-      series: { siteLoadKw: [210, 205, 198] },
+      series: { siteLoadKw: [210, 205, 198], importPrice: [0.31, 0.29, 0.3] },
     });
   });
 

@@ -7,9 +7,17 @@ import type { PlannedState, ReplanRequest } from '@gridwright/shared/revisions';
 export interface ReplanFormValues {
   numbers: Record<string, string>;
   unitsOn: Record<string, boolean>;
-  supplyKw: string;
-  siteLoadKw: string;
+  series: Record<FreshSeriesField, string>;
 }
+
+/** The fresh forecasts the form takes, one value per remaining step each. */
+export const FRESH_SERIES = [
+  { field: 'supplyKw', label: 'Available supply (kW)' },
+  { field: 'siteLoadKw', label: 'Site load (kW)' },
+  { field: 'importPrice', label: 'Import price (per kWh)' },
+  { field: 'exportPrice', label: 'Export price (per kWh)' },
+] as const;
+export type FreshSeriesField = (typeof FRESH_SERIES)[number]['field'];
 
 const esc = (id: string) => id.replace(/~/g, '~0').replace(/\//g, '~1');
 
@@ -20,8 +28,7 @@ export const pointers = {
   stepsInState: (id: string) => `/state/units/${esc(id)}/stepsInState`,
   powerKw: (id: string) => `/state/units/${esc(id)}/powerKw`,
   peak: (id: string) => `/state/demandCharges/${esc(id)}/peakKw`,
-  supplyKw: '/series/supplyKw',
-  siteLoadKw: '/series/siteLoadKw',
+  series: (field: FreshSeriesField) => `/series/${field}`,
 };
 
 /** Figures shown to the watt or better, without binary noise. */
@@ -39,7 +46,7 @@ export function formFromPlan(planned: PlannedState): ReplanFormValues {
     numbers[pointers.powerKw(id)] = u.powerKw === null ? '' : shown(u.powerKw);
   }
   for (const [id, c] of Object.entries(planned.state.demandCharges)) numbers[pointers.peak(id)] = shown(c.peakKw);
-  return { numbers, unitsOn, supplyKw: '', siteLoadKw: '' };
+  return { numbers, unitsOn, series: { supplyKw: '', siteLoadKw: '', importPrice: '', exportPrice: '' } };
 }
 
 /** "12, 14.5\n16" → [12, 14.5, 16]; empty text → undefined (keep the parent's series). */
@@ -67,9 +74,9 @@ export function requestFromForm(from: number, planned: PlannedState, values: Rep
   }
   for (const id of Object.keys(planned.state.demandCharges)) state.demandCharges[id] = { peakKw: n(pointers.peak(id)) ?? NaN };
   const series: ReplanRequest['series'] = {};
-  const supplyKw = seriesFromText(values.supplyKw);
-  const siteLoadKw = seriesFromText(values.siteLoadKw);
-  if (supplyKw) series.supplyKw = supplyKw;
-  if (siteLoadKw) series.siteLoadKw = siteLoadKw;
+  for (const { field } of FRESH_SERIES) {
+    const fresh = seriesFromText(values.series[field]);
+    if (fresh) series[field] = fresh;
+  }
   return { from, state, series };
 }
