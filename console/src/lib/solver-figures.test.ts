@@ -4,6 +4,7 @@ import { formatSolverChange, formatSolverFigure } from './solver-figures';
 describe('solver figures', () => {
   it('shows float noise as 0 and keeps real figures and missing ones as formatNumber does', () => {
     expect(formatSolverFigure(-1e-12)).toBe('0');
+    expect(formatSolverFigure(-0.004)).toBe('0');
     expect(formatSolverFigure(-239.334)).toBe('-239.33');
     expect(formatSolverFigure(null)).toBe('—');
   });
