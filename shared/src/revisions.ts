@@ -157,8 +157,8 @@ export type RevisionChain = z.infer<typeof revisionChainSchema>;
 const valuedTermsSchema = z.object({ terms: objectiveTermsSchema, total: z.number() });
 
 const setpointChangeSchema = z.object({
-  key: z.string().meta({ description: 'The CSV export\'s column name, e.g. `ely-1.powerKw` or `grid.importKw`.' }),
-  unit: z.enum(['kW', 'kWh', 'on/off']),
+  key: z.string().meta({ description: 'The CSV export\'s column name, e.g. `ely-1.powerKw` or `grid.importKw`; marginal values (prices, not setpoints) are left out.' }),
+  unit: z.enum(['kW', 'kWh', 'on/off', 'store unit']).meta({ description: "`store unit`: a store's level, shortfall or spill, in the store's own unit." }),
   base: z.array(z.number()),
   revision: z.array(z.number()),
   changedSteps: count.meta({ description: 'Steps where the two differ by more than 1e-6.' }),

@@ -14,7 +14,11 @@ import { getRunSchedule } from './schedule-export';
 /** Differences smaller than this are float noise, not a changed setpoint. */
 const CHANGED = 1e-6;
 
-const UNIT_OF = { power: 'kW', energy: 'kWh', flag: 'on/off' } as const;
+/** The unit of each kind of setpoint column; marginal values (`pricePerEnergy`, a store's `.marginalValue`) are prices, not setpoints, and are left out. */
+const UNIT_OF = { power: 'kW', energy: 'kWh', flag: 'on/off', store: 'store unit' } as const;
+const isSetpoint = (column: { key: string; kind: string }): column is { key: string; kind: keyof typeof UNIT_OF } =>
+  column.kind in UNIT_OF && !column.key.endsWith('.marginalValue');
+const numeric = (values: (number | null)[]): values is number[] => values.every((v) => v !== null);
 
 /** Every per-step array of a schedule from step `from` on (every array in a schedule is per step). */
 function scheduleFrom<T>(value: T, from: number): T {
@@ -89,14 +93,15 @@ export async function revisionDiff(ctx: AppContext, tenantId: string, id: string
   const beforeColumns = new Map(scheduleColumns(before).map((c) => [c.key, c.values]));
   const setpoints = scheduleColumns(after).flatMap((column) => {
     const old = beforeColumns.get(column.key);
-    if (!old) return [];
-    const change = column.values.map((v, t) => Math.abs(v - old[t]));
+    const values = column.values;
+    if (!old || !isSetpoint(column) || !numeric(old) || !numeric(values)) return [];
+    const change = values.map((v, t) => Math.abs(v - old[t]));
     return [
       {
         key: column.key,
         unit: UNIT_OF[column.kind],
         base: old,
-        revision: column.values,
+        revision: values,
         changedSteps: change.filter((d) => d > CHANGED).length,
         largestChange: change.reduce((m, d) => Math.max(m, d), 0),
       },

@@ -2077,10 +2077,13 @@ export interface components {
             timestamps: string[];
             /** @description Every column of the schedule export, step by step over the common steps (revision − base). */
             setpoints: {
-                /** @description The CSV export's column name, e.g. `ely-1.powerKw` or `grid.importKw`. */
+                /** @description The CSV export's column name, e.g. `ely-1.powerKw` or `grid.importKw`; marginal values (prices, not setpoints) are left out. */
                 key: string;
-                /** @enum {string} */
-                unit: "kW" | "kWh" | "on/off";
+                /**
+                 * @description `store unit`: a store's level, shortfall or spill, in the store's own unit.
+                 * @enum {string}
+                 */
+                unit: "kW" | "kWh" | "on/off" | "store unit";
                 base: number[];
                 revision: number[];
                 /** @description Steps where the two differ by more than 1e-6. */

@@ -164,6 +164,10 @@ describe('re-plans from measured state', () => {
     expect(column('bess-1.dischargeKw')).toMatchObject({ unit: 'kW', base: [100, 100], revision: [0, 50], changedSteps: 2, largestChange: 100 });
     expect(column('gen-1.on')).toMatchObject({ unit: 'on/off', base: [0, 0], revision: [1, 1], changedSteps: 2 });
     expect(column('grid.exportKw')).toMatchObject({ changedSteps: 0, largestChange: 0 });
+    // Marginal values are prices the solve reports, not setpoints: the export has them, the difference does not.
+    const csv = await get(`/v1/runs/${replanId}/schedule?format=csv`).expect(200);
+    expect(csv.text.split(/\r?\n/)[0]).toContain('site.marginalValuePerKwh');
+    expect(column('site.marginalValuePerKwh')).toBeUndefined();
     // Hand-priced on the re-plan's spec: the parent's remainder imports nothing and runs no unit (0);
     // the re-plan pays 0.5·50 for import and 0.55·100 for the generator's energy (−80), no start.
     expect(res.body.objective.base.total).toBeCloseTo(0, 6);
