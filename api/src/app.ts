@@ -29,9 +29,11 @@ import { paymentEventsRouter } from './routes/payment-events';
 import { tenantRouter } from './routes/tenant';
 import { usageRouter } from './routes/usage';
 import { exportProfilesRouter } from './routes/export-profiles';
+import { revisionsRouter } from './routes/revisions';
 import { runsRouter } from './routes/runs';
 import { seriesRouter } from './routes/series';
 import { specsRouter } from './routes/specs';
+import { studiesRouter } from './routes/studies';
 import { webhookEndpointsRouter } from './routes/webhook-endpoints';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
@@ -173,6 +175,8 @@ export function buildApp(ctx: AppContext): Express {
   app.use(billingRouter(ctx));
   app.use(adminBillingRouter(ctx));
   app.use(outboxRouter(ctx));
+  app.use(revisionsRouter(ctx));
+  app.use(studiesRouter(ctx));
   app.use(specsRouter(ctx));
   app.use(seriesRouter(ctx));
   app.use(webhookEndpointsRouter(ctx));

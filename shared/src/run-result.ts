@@ -66,7 +66,7 @@ const demandChargeKpisSchema = z.object({
 });
 export type DemandChargeKpis = z.infer<typeof demandChargeKpisSchema>;
 
-const objectiveTermsSchema = z
+export const objectiveTermsSchema = z
   .object({
     energy: z.number().meta({ description: "Export revenue − import cost + flexible loads' value − generators' energy cost (their curves)." }),
     noLoad: z.number(),
@@ -267,6 +267,28 @@ const runErrorSchema = z.object({
 });
 export type RunError = z.infer<typeof runErrorSchema>;
 
+const runRevisionSchema = z
+  .object({
+    parentId: z.uuid().meta({ description: 'The run this one re-plans.' }),
+    rootId: z.uuid().meta({ description: 'The first run of the chain of revisions.' }),
+    fromStep: count.meta({ description: "The step of the parent's horizon this run starts at (the re-plan time)." }),
+    rootStep: count.meta({ description: "The same step counted in the first run's horizon." }),
+  })
+  .nullable()
+  .meta({
+    description:
+      'Set on a re-plan (`POST /v1/runs/{runId}/replans`): its place in the chain of revisions. Its schedule covers the ' +
+      "steps from the re-plan time on; the steps before it stay the parent's. null for a run submitted on its own.",
+  });
+
+const runStudyPlaceSchema = z
+  .object({
+    id: z.uuid(),
+    position: count.meta({ description: "The run's combination in the study's grid, counted from 0 (the last change varies fastest)." }),
+  })
+  .nullable()
+  .meta({ description: 'Set on a run a study created (`POST /v1/studies`); null otherwise.' });
+
 /** A run over HTTP; lists leave out the result fields. */
 export const runSchema = z
   .object({
@@ -285,7 +307,17 @@ export const runSchema = z
     attempts: count.meta({ description: 'How many times a worker has taken the run (more than 1 only after a worker crashed).' }),
     solverSeconds: z.number().nullable(),
     error: runErrorSchema.nullable(),
-    links: z.object({ self: z.string(), spec: z.string(), schedule: z.string(), cancel: z.string(), deliveries: z.string() }),
+    revision: runRevisionSchema,
+    study: runStudyPlaceSchema,
+    links: z.object({
+      self: z.string(),
+      spec: z.string(),
+      schedule: z.string(),
+      cancel: z.string(),
+      deliveries: z.string(),
+      replans: z.string(),
+      revisions: z.string(),
+    }),
     ...z.object(resultFields).partial().shape,
   })
   .meta({

@@ -2,7 +2,7 @@
  * Invented benchmark sites, generated deterministically (a fixed-seed LCG), so every run of
  * `npm run bench` measures the same models.
  */
-import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import type { ResolvedSiteSpec, SiteSpec } from '@gridwright/shared/site-spec';
 import { resolveSpec } from '../reference/support/specs';
 
 /** Park–Miller style LCG: deterministic noise without a dependency. */
@@ -80,7 +80,7 @@ export function solarOnlySite(days: number): ResolvedSiteSpec {
  * A grid-tied site with solar, a site load, a battery, a backup generator and an electrolyser,
  * `days` days at `stepMinutes`. Time-of-use prices with a morning and an evening peak.
  */
-export function gridTiedSite(days: number, stepMinutes: 15 | 60, seed = 5): ResolvedSiteSpec {
+export function gridTiedSiteSpec(days: number, stepMinutes: 15 | 60, seed = 5): SiteSpec {
   const perDay = (24 * 60) / stepMinutes;
   const steps = days * perDay;
   const rnd = lcg(seed);
@@ -94,7 +94,7 @@ export function gridTiedSite(days: number, stepMinutes: 15 | 60, seed = 5): Reso
     importPrice.push(peak ? 0.32 : hour < 6 ? 0.12 : 0.2);
     exportPrice.push(peak ? 0.12 : 0.04);
   }
-  return resolveSpec({
+  return {
     name: `Bench: grid-tied site with battery, ${days} days`,
     horizon: { start: '2027-01-04T00:00:00+01:00', stepMinutes, steps },
     supply: { availableKw: solar(steps, stepMinutes, 600, seed + 1) },
@@ -111,7 +111,11 @@ export function gridTiedSite(days: number, stepMinutes: 15 | 60, seed = 5): Reso
         minSocKwh: 80, initialSocKwh: 400, finalSocKwh: 400, cycleCostPerKwh: 0.01 },
     ],
     solver: { mode: 'monolithic', mipGap: 1e-3, timeLimitSeconds: 300 },
-  });
+  };
+}
+
+export function gridTiedSite(days: number, stepMinutes: 15 | 60, seed = 5): ResolvedSiteSpec {
+  return resolveSpec(gridTiedSiteSpec(days, stepMinutes, seed));
 }
 
 /** A small model for the solver comparison and the memory run (hourly, grid-tied). */

@@ -8,6 +8,7 @@ import { createHash } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputGuards1780000500000 } from '../../api/src/db/migrations/1780000500000-input-guards';
+import { RevisionsAndStudies1780000770000 } from '../../api/src/db/migrations/1780000770000-revisions-and-studies';
 import { SeriesKinds1780000710000 } from '../../api/src/db/migrations/1780000710000-series-kinds';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { updateExportProfile } from '../../api/src/services/export-profiles';
@@ -248,16 +249,17 @@ describe('API3 behind the routes: the services and the database refuse what a bo
 
   it('cleans privileges planted before the guards existed: unknown scopes dropped and their keys revoked, bad overrides removed', async () => {
     const guards = new InputGuards1780000500000();
-    // The guards' series constraint names a column a later migration renamed: that one goes down first and back up last.
-    const seriesKinds = new SeriesKinds1780000710000();
+    // Later migrations lean on what the guards made (their (id, tenant_id) keys, the series constraint's
+    // column): they step aside, newest first, and come back after the guards.
+    const later = [new SeriesKinds1780000710000(), new RevisionsAndStudies1780000770000()];
     const q = t.ctx.db.createQueryRunner();
     try {
-      await seriesKinds.down(q);
+      for (const m of [...later].reverse()) await m.down(q);
       await guards.down(q);
       const [key] = await q.query(`INSERT INTO api_keys (tenant_id, name, prefix, secret_hash, scopes) VALUES ($1, 'planted', 'cccccccccccc', 'h', '{runs:read,admin}') RETURNING id`, [a.tenantId]);
       await q.query(`UPDATE tenants SET limit_overrides = '{"monthlyRuns": "unlimited", "maxUnits": 3, "bogus": 1, "requestsPerSecond": 0}' WHERE id = $1`, [a.tenantId]);
       await guards.up(q);
-      await seriesKinds.up(q);
+      for (const m of later) await m.up(q);
       const [cleaned] = await q.query(`SELECT scopes, revoked_at IS NOT NULL AS revoked FROM api_keys WHERE id = $1`, [key.id]);
       expect(cleaned).toEqual({ scopes: ['runs:read'], revoked: true });
       const [tenant] = await q.query(`SELECT limit_overrides FROM tenants WHERE id = $1`, [a.tenantId]);

@@ -16,6 +16,7 @@ import { ExportProfile } from './entities/export-profile';
 import { IdempotencyKey } from './entities/idempotency-key';
 import { Run } from './entities/run';
 import { Series } from './entities/series';
+import { Study } from './entities/study';
 import { WebhookDelivery } from './entities/webhook-delivery';
 import { WebhookEndpoint } from './entities/webhook-endpoint';
 import { Runs1780000100000 } from './migrations/1780000100000-runs';
@@ -30,12 +31,13 @@ import { InputGuards1780000500000 } from './migrations/1780000500000-input-guard
 import { Billing1780000760000 } from './migrations/1780000760000-billing';
 import { RatePointReservations1780000530000 } from './migrations/1780000530000-rate-point-reservations';
 import { SeriesKinds1780000710000 } from './migrations/1780000710000-series-kinds';
+import { RevisionsAndStudies1780000770000 } from './migrations/1780000770000-revisions-and-studies';
 
 type Constructor = new (...args: any[]) => unknown;
 
 export const entities: Constructor[] = [
   Plan, Tenant, User, Session, ApiKey, Invitation, PasswordReset, AuditEvent, OutboxMessage, RunUsage,
-  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile, BillingAccount,
+  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile, BillingAccount, Study,
 ];
 
 export const migrations: Constructor[] = [
@@ -47,4 +49,5 @@ export const migrations: Constructor[] = [
   FairQueues1780000600000,
   SeriesKinds1780000710000,
   Billing1780000760000,
+  RevisionsAndStudies1780000770000,
 ];

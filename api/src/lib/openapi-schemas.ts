@@ -6,14 +6,31 @@
  */
 import { Document, Scalar, visit } from 'yaml';
 import { z } from 'zod';
+import { revisionComponents, revisionRequestComponents } from '@gridwright/shared/revisions';
 import { runComponents } from '@gridwright/shared/run-result';
 import { siteSpecComponents } from '@gridwright/shared/site-spec';
+import { studyComponents, studyRequestComponents } from '@gridwright/shared/studies';
 
 export const GENERATED_SCHEMAS_START = '    # generated-schemas:start — `npm run gen:openapi` writes these from the zod schemas in shared/src; edit those, not this block';
 export const GENERATED_SCHEMAS_END = '    # generated-schemas:end';
 
 type JsonSchema = Record<string, unknown>;
 type Io = 'input' | 'output';
+type Registry = z.core.$ZodRegistry<{ id: string }>;
+
+/**
+ * Every registry of the contract, each rendered as clients write it (requests) or as the API writes
+ * it (responses). The site spec and the run are written out whole; the re-plan and study schemas
+ * refer to the parts those two name (the site spec, a run status, the objective terms).
+ */
+const REGISTRIES: { registry: Registry; io: Io; refersToOthers: boolean }[] = [
+  { registry: siteSpecComponents, io: 'input', refersToOthers: false },
+  { registry: runComponents, io: 'output', refersToOthers: false },
+  { registry: revisionRequestComponents, io: 'input', refersToOthers: true },
+  { registry: revisionComponents, io: 'output', refersToOthers: true },
+  { registry: studyRequestComponents, io: 'input', refersToOthers: true },
+  { registry: studyComponents, io: 'output', refersToOthers: true },
+];
 
 const componentUri = (id: string) => `#/components/schemas/${id}`;
 
@@ -23,8 +40,14 @@ const componentUri = (id: string) => `#/components/schemas/${id}`;
  * are already applied, and a client should expect fields to be added.
  */
 const tidy =
-  (io: Io) =>
-  ({ jsonSchema }: { jsonSchema: JsonSchema }) => {
+  (io: Io, own: Registry | null) =>
+  ({ zodSchema, jsonSchema }: { zodSchema: z.core.$ZodType; jsonSchema: JsonSchema }) => {
+    const elsewhere = own && REGISTRIES.find(({ registry }) => registry !== own && registry.has(zodSchema))?.registry;
+    if (elsewhere) {
+      for (const key of Object.keys(jsonSchema)) delete jsonSchema[key];
+      jsonSchema.$ref = componentUri(elsewhere.get(zodSchema)!.id);
+      return;
+    }
     if (jsonSchema.format && jsonSchema.pattern) delete jsonSchema.pattern;
     if (jsonSchema.type === 'integer' && jsonSchema.minimum === Number.MIN_SAFE_INTEGER) delete jsonSchema.minimum;
     if (jsonSchema.type === 'integer' && jsonSchema.maximum === Number.MAX_SAFE_INTEGER) delete jsonSchema.maximum;
@@ -71,8 +94,9 @@ function ordered(schema: unknown): unknown {
  * One registry's schemas, wholes before parts: each part is registered before the schema that
  * uses it, so reversing the registration order reads top-down.
  */
-function componentsOf(registry: z.core.$ZodRegistry<{ id: string }>, io: Io): [string, unknown][] {
-  const { schemas } = z.toJSONSchema(registry, { io, uri: componentUri, override: tidy(io), unrepresentable: 'throw' }) as {
+function componentsOf({ registry, io, refersToOthers }: (typeof REGISTRIES)[number]): [string, unknown][] {
+  const override = tidy(io, refersToOthers ? registry : null);
+  const { schemas } = z.toJSONSchema(registry, { io, uri: componentUri, override, unrepresentable: 'throw' }) as {
     schemas: Record<string, JsonSchema>;
   };
   if ('__shared' in schemas) throw new Error(`a schema reached from ${Object.keys(schemas).join(', ')} is used twice without a name: register it`);
@@ -86,7 +110,7 @@ function componentsOf(registry: z.core.$ZodRegistry<{ id: string }>, io: Io): [s
 
 /** Request bodies are read as clients write them (a field with a default is optional); responses as the API writes them. */
 export function contractComponentSchemas(): Record<string, unknown> {
-  const entries = [...componentsOf(siteSpecComponents, 'input'), ...componentsOf(runComponents, 'output')];
+  const entries = REGISTRIES.flatMap(componentsOf);
   const ids = entries.map(([id]) => id);
   const twice = ids.filter((id, i) => ids.indexOf(id) !== i);
   if (twice.length) throw new Error(`component names used twice: ${twice.join(', ')}`);

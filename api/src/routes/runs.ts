@@ -4,6 +4,7 @@ import { authenticate, authorize } from '../auth/middleware';
 import type { AppContext } from '../context';
 import type { Run } from '../db/entities/run';
 import { strictRouter } from '../lib/strict-router';
+import { runActorOf } from './run-actor';
 import { cancelRun } from '../runs/cancellation';
 import { delimiterNamed } from '../lib/csv-delimiters';
 import { optionalInstant } from '../lib/instants';
@@ -16,11 +17,6 @@ import { deliveryView } from '../services/webhooks';
 
 /** A list shows each finished run's objective, so runs compare at a glance without their schedules. */
 const listItem = (run: Run) => ({ ...runSummary(run), ...(run.result ? { objective: (run.result as RunResult).objective } : {}) });
-
-const actorOf = (req: Request) => {
-  const p = req.principal!;
-  return { tenantId: p.tenantId, userId: p.userId, apiKeyId: p.apiKeyId };
-};
 
 function queryString(q: Record<string, unknown>) {
   const params = new URLSearchParams();
@@ -44,7 +40,7 @@ export function runsRouter(ctx: AppContext): Router {
 
   r.post('/v1/runs', auth, authorize('runs.create'), async (req, res) => {
     const key = parseIdempotencyKey(req.get('idempotency-key'));
-    const { run, replayed } = await submitRun(ctx, actorOf(req), req.body, key);
+    const { run, replayed } = await submitRun(ctx, runActorOf(req), req.body, key);
     res.status(202).location(`/v1/runs/${run.id}`);
     if (replayed) res.setHeader('Idempotent-Replayed', 'true');
     res.json(runSummary(run));

@@ -1,3 +1,4 @@
+import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
 import { Run } from '../db/entities/run';
 import { HttpProblem } from '../lib/problem';
@@ -14,12 +15,7 @@ import { cancelQueuedRun, requestCancel } from './transitions';
 export async function cancelRun(ctx: AppContext, tenantId: string, id: string): Promise<Run> {
   const run = await getRun(ctx, tenantId, id);
   await ctx.db.transaction(async (manager) => {
-    const cancelled = await cancelQueuedRun(manager, run.id);
-    if (cancelled) {
-      if (cancelled.jobId) await dropRunJob(ctx, manager, cancelled.jobId);
-      return announceEnding(ctx, manager, run.id, cancelled);
-    }
-    if (await requestCancel(manager, run.id)) return;
+    if (await stopRun(ctx, manager, run.id)) return;
     const current = await manager.findOneByOrFail(Run, { id: run.id });
     if (current.status === 'cancelled') return;
     throw new HttpProblem({
@@ -30,4 +26,18 @@ export async function cancelRun(ctx: AppContext, tenantId: string, id: string): 
     });
   });
   return getRun(ctx, tenantId, id);
+}
+
+/**
+ * Cancels a queued run (its job leaves the queue, its event is queued) or flags a running one, on
+ * the caller's transaction. False when the run has already ended.
+ */
+export async function stopRun(ctx: AppContext, manager: EntityManager, runId: string): Promise<boolean> {
+  const cancelled = await cancelQueuedRun(manager, runId);
+  if (cancelled) {
+    if (cancelled.jobId) await dropRunJob(ctx, manager, cancelled.jobId);
+    await announceEnding(ctx, manager, runId, cancelled);
+    return true;
+  }
+  return requestCancel(manager, runId);
 }

@@ -28,7 +28,9 @@ async function getRunForView(ctx: AppContext, tenantId: string, id: string): Pro
         name: 'run-for-view',
         text: `SELECT id, tenant_id AS "tenantId", created_at AS "createdAt", status, outcome, name, steps, units,
                       started_at AS "startedAt", finished_at AS "finishedAt", cancel_requested_at AS "cancelRequestedAt",
-                      windows_done AS "windowsDone", windows_total AS "windowsTotal", attempts, result, error, solver_seconds AS "solverSeconds"
+                      windows_done AS "windowsDone", windows_total AS "windowsTotal", attempts, result, error, solver_seconds AS "solverSeconds",
+                      parent_run_id AS "parentRunId", root_run_id AS "rootRunId", replan_from_step AS "replanFromStep", root_step AS "rootStep",
+                      study_id AS "studyId", study_position AS "studyPosition"
                  FROM runs WHERE id = $1 AND tenant_id = $2`,
         values: [id, tenantId],
       })

@@ -33,23 +33,77 @@ export async function submitRun(
   idempotencyKey: string | null,
 ): Promise<{ run: Run; replayed: boolean }> {
   const checked = await resolveRequestSpec(ctx.db.manager, actor.tenantId, body);
-  return ctx.db.transaction(async (manager) => {
-    if (idempotencyKey) {
-      const claim = await claimIdempotencyKey(manager, {
-        tenantId: actor.tenantId,
-        key: idempotencyKey,
-        fingerprint: bodyFingerprint(body),
-        hours: ctx.config.idempotencyHours,
-      });
-      if (!claim.fresh) return { run: await manager.findOneByOrFail(Run, { id: claim.runId }), replayed: true };
-    }
-    await assertRunAllowed(ctx, manager, actor.tenantId, { steps: checked.resolved.horizon.steps, units: checked.resolved.units.length });
-    const place = await placeInQueue(manager, actor.tenantId);
-    const run = await insertRun(manager, actor, body, checked, place);
-    if (idempotencyKey) await bindIdempotencyKey(manager, { tenantId: actor.tenantId, key: idempotencyKey, runId: run.id });
-    await sendRunJob(ctx, manager, run, place);
-    return { run, replayed: false };
-  });
+  const idempotency = idempotencyKey ? { key: idempotencyKey, fingerprint: bodyFingerprint(body) } : null;
+  return ctx.db.transaction((manager) =>
+    acceptOnce(ctx, manager, actor.tenantId, idempotency, async () => {
+      const facts = runFacts(checked);
+      await assertRunAllowed(ctx, manager, actor.tenantId, facts);
+      return queueCheckedRun(ctx, manager, actor, body, facts);
+    }),
+  );
+}
+
+/** What a run's row keeps of its checked spec besides the spec itself; `steps` and `units` are what the plan's caps measure. */
+export interface RunFacts {
+  name: string | null;
+  seriesId: string | null;
+  steps: number;
+  units: number;
+  timeLimitSeconds: number;
+}
+
+export const runFacts = ({ spec, resolved }: { spec: ValidSiteSpec; resolved: ResolvedSiteSpec }): RunFacts => ({
+  name: resolved.name,
+  seriesId: 'seriesId' in spec.supply ? spec.supply.seriesId : null,
+  steps: resolved.horizon.steps,
+  units: resolved.units.length,
+  timeLimitSeconds: resolved.solver.timeLimitSeconds,
+});
+
+/**
+ * Creates a run once per Idempotency-Key, inside `manager`'s transaction: the first request with a
+ * key runs `create` and binds the key to its run; a repeat with the same fingerprint gets that run
+ * back (`replayed`), one with another fingerprint a 422.
+ */
+export async function acceptOnce(
+  ctx: AppContext,
+  manager: EntityManager,
+  tenantId: string,
+  idempotency: { key: string; fingerprint: string } | null,
+  create: () => Promise<Run>,
+): Promise<{ run: Run; replayed: boolean }> {
+  if (idempotency) {
+    const claim = await claimIdempotencyKey(manager, { tenantId, key: idempotency.key, fingerprint: idempotency.fingerprint, hours: ctx.config.idempotencyHours });
+    if (!claim.fresh) return { run: await manager.findOneByOrFail(Run, { id: claim.runId }), replayed: true };
+  }
+  const run = await create();
+  if (idempotency) await bindIdempotencyKey(manager, { tenantId, key: idempotency.key, runId: run.id });
+  return { run, replayed: false };
+}
+
+/** Where a run comes from besides its submitter: the run it re-plans, or its study and place in the study's grid. */
+export interface RunOrigin {
+  revision?: { parentRunId: string; rootRunId: string; fromStep: number; rootStep: number };
+  study?: { studyId: string; position: number };
+}
+
+/**
+ * Inserts a checked spec's run and sends its job, on the caller's transaction. Call it after the
+ * plan's checks (`assertRunAllowed` / `assertRunsAllowed`), under the lock they take, so two runs
+ * never share a round of the tenant-fair queue.
+ */
+export async function queueCheckedRun(
+  ctx: AppContext,
+  manager: EntityManager,
+  actor: RunActor,
+  submitted: unknown,
+  facts: RunFacts,
+  origin: RunOrigin = {},
+): Promise<Run> {
+  const place = await placeInQueue(manager, actor.tenantId);
+  const run = await insertRun(manager, actor, submitted, facts, place, origin);
+  await sendRunJob(ctx, manager, run, place);
+  return run;
 }
 
 /** The run keeps the spec as submitted (what `GET /v1/runs/{id}/spec` returns); the worker resolves it again. */
@@ -57,24 +111,32 @@ async function insertRun(
   manager: EntityManager,
   actor: RunActor,
   submitted: unknown,
-  { spec, resolved }: { spec: ValidSiteSpec; resolved: ResolvedSiteSpec },
+  facts: RunFacts,
   place: QueuePlace,
+  { revision, study }: RunOrigin,
 ): Promise<Run> {
   const [row]: { id: string }[] = await manager.query(
-    `INSERT INTO runs (tenant_id, name, spec, series_id, steps, units, time_limit_seconds, created_by_user_id, created_by_api_key_id, job_id, queue_round)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11) RETURNING id`,
+    `INSERT INTO runs (tenant_id, name, spec, series_id, steps, units, time_limit_seconds, created_by_user_id, created_by_api_key_id, job_id, queue_round,
+                       parent_run_id, root_run_id, replan_from_step, root_step, study_id, study_position)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13, $14, $15, $16, $17) RETURNING id`,
     [
       actor.tenantId,
-      resolved.name,
+      facts.name,
       JSON.stringify(submitted),
-      'seriesId' in spec.supply ? spec.supply.seriesId : null,
-      resolved.horizon.steps,
-      resolved.units.length,
-      resolved.solver.timeLimitSeconds,
+      facts.seriesId,
+      facts.steps,
+      facts.units,
+      facts.timeLimitSeconds,
       actor.userId ?? null,
       actor.apiKeyId ?? null,
       place.jobId,
       place.round,
+      revision?.parentRunId ?? null,
+      revision?.rootRunId ?? null,
+      revision?.fromStep ?? null,
+      revision?.rootStep ?? 0,
+      study?.studyId ?? null,
+      study?.position ?? null,
     ],
   );
   return manager.findOneByOrFail(Run, { id: row.id });

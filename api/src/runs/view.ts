@@ -13,6 +13,8 @@ export function runLinks(id: string) {
     schedule: `/v1/runs/${id}/schedule`,
     cancel: `/v1/runs/${id}/cancel`,
     deliveries: `/v1/runs/${id}/webhook-deliveries`,
+    replans: `/v1/runs/${id}/replans`,
+    revisions: `/v1/runs/${id}/revisions`,
   };
 }
 
@@ -39,6 +41,11 @@ export function runSummary(run: RunForView): RunView {
     attempts: run.attempts,
     solverSeconds: run.solverSeconds,
     error: run.error,
+    revision:
+      run.parentRunId && run.rootRunId && run.replanFromStep !== null
+        ? { parentId: run.parentRunId, rootId: run.rootRunId, fromStep: run.replanFromStep, rootStep: run.rootStep }
+        : null,
+    study: run.studyId && run.studyPosition !== null ? { id: run.studyId, position: run.studyPosition } : null,
     links: runLinks(run.id),
   };
 }

@@ -56,7 +56,15 @@ const MONTHLY_QUOTAS = {
   },
 } as const;
 
-function assertRunSizeAllowed(limits: TenantLimits, size: { steps: number; units: number }) {
+/** Where a refused run sits in the request: a prefix for the pointer and words for the detail (a study's combinations). */
+export interface RunPlace {
+  pointerPrefix: string;
+  describe: (index: number) => string;
+}
+
+const SINGLE_RUN: RunPlace = { pointerPrefix: '', describe: () => 'The spec' };
+
+function assertRunSizeAllowed(limits: TenantLimits, size: { steps: number; units: number }, what: string, pointerPrefix: string) {
   for (const measure of ['steps', 'units'] as const) {
     const cap = RUN_SIZE_CAPS[measure];
     const limit = limits[cap.limit];
@@ -66,23 +74,26 @@ function assertRunSizeAllowed(limits: TenantLimits, size: { steps: number; units
       status: 422,
       slug: cap.slug,
       title: cap.title,
-      detail: `The spec has ${requested} ${measure}; the plan allows at most ${limit} per run.`,
-      errors: [{ pointer: cap.pointer, message: `at most ${limit} ${measure} on this plan` }],
+      detail: `${what} has ${requested} ${measure}; the plan allows at most ${limit} per run.`,
+      errors: [{ pointer: `${pointerPrefix}${cap.pointer}`, message: `at most ${limit} ${measure} on this plan` }],
       extensions: { limit, requested },
     });
   }
 }
 
-function assertQuotaLeft(metric: keyof PeriodTotals, limits: TenantLimits, used: PeriodTotals, period: BillingPeriod) {
+/** Refuses when the quota is used up, or (runs) when `adding` more would pass it. */
+function assertQuotaLeft(metric: keyof PeriodTotals, limits: TenantLimits, used: PeriodTotals, period: BillingPeriod, adding = 1) {
   const quota = MONTHLY_QUOTAS[metric];
   const limit = limits[quota.limit];
-  if (used[metric] < limit) return;
+  const fits = metric === 'runs' ? used.runs + adding <= limit : used[metric] < limit;
+  if (fits) return;
+  const asked = adding > 1 ? ` ${adding} more were asked for;` : '';
   throw new HttpProblem({
     status: 429,
     slug: quota.slug,
     title: quota.title,
-    detail: `${quota.amount(used[metric])} of ${limit} ${quota.label} used in ${period.key}; the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
-    extensions: { limit, used: used[metric], period: period.key, renewsAt: period.end.toISOString() },
+    detail: `${quota.amount(used[metric])} of ${limit} ${quota.label} used in ${period.key};${asked} the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
+    extensions: { limit, used: used[metric], period: period.key, renewsAt: period.end.toISOString(), ...(adding > 1 ? { requested: adding } : {}) },
     headers: { 'Retry-After': secondsUntil(period.end) },
   });
 }
@@ -91,30 +102,51 @@ function assertQuotaLeft(metric: keyof PeriodTotals, limits: TenantLimits, used:
  * Call inside the transaction that inserts the run. Takes a per-tenant transaction lock so that two
  * submissions racing for the last run of the quota cannot both pass.
  */
-export async function assertRunAllowed(
+export function assertRunAllowed(ctx: AppContext, manager: EntityManager, tenantId: string, size: { steps: number; units: number }): Promise<void> {
+  return assertRunsAllowed(ctx, manager, tenantId, [size], SINGLE_RUN);
+}
+
+/**
+ * The same for runs accepted together (a study's): each within the plan's size caps, and all of
+ * them within the monthly runs left and the runs the plan allows queued or running at once. More
+ * runs than the plan ever allows at once is 422; more than are free now, 429.
+ */
+export async function assertRunsAllowed(
   ctx: AppContext,
   manager: EntityManager,
   tenantId: string,
-  size: { steps: number; units: number },
+  sizes: { steps: number; units: number }[],
+  place: RunPlace,
 ): Promise<void> {
   const limits = await getTenantLimits(ctx, tenantId, manager);
-  assertRunSizeAllowed(limits, size);
+  sizes.forEach((size, i) => assertRunSizeAllowed(limits, size, place.describe(i), place.pointerPrefix));
+  const count = sizes.length;
+  if (count > limits.concurrentRuns) {
+    throw new HttpProblem({
+      status: 422,
+      slug: 'plan-concurrent-runs',
+      title: 'More runs at once than the plan allows',
+      detail: `${count} runs would be queued at once; the plan allows ${limits.concurrentRuns} queued or running at once.`,
+      extensions: { limit: limits.concurrentRuns, requested: count },
+    });
+  }
   await manager.query('SELECT pg_advisory_xact_lock(hashtextextended($1, 0))', [`quota:${tenantId}`]);
   const period = billingPeriod();
   const used = await periodTotals(manager, tenantId, period);
-  assertQuotaLeft('runs', limits, used, period);
+  assertQuotaLeft('runs', limits, used, period, count);
   // Under the same lock, so simultaneous submissions cannot both take the last slot.
   const [active] = await manager.query(
     "SELECT count(*)::int AS n FROM runs WHERE tenant_id = $1 AND status IN ('queued', 'running')",
     [tenantId],
   );
-  if (active.n >= limits.concurrentRuns) {
+  if (active.n + count > limits.concurrentRuns) {
+    const asked = count > 1 ? `; ${count} more were asked for` : '';
     throw new HttpProblem({
       status: 429,
       slug: 'concurrent-runs',
       title: 'Too many runs in progress',
-      detail: `${active.n} runs are queued or running; the plan allows ${limits.concurrentRuns} at once. Submit again when one has ended.`,
-      extensions: { limit: limits.concurrentRuns, active: active.n },
+      detail: `${active.n} runs are queued or running${asked}; the plan allows ${limits.concurrentRuns} at once. Submit again when ${count > 1 ? 'runs have' : 'one has'} ended.`,
+      extensions: { limit: limits.concurrentRuns, active: active.n, ...(count > 1 ? { requested: count } : {}) },
       headers: { 'Retry-After': '5' },
     });
   }

@@ -9,6 +9,7 @@ export interface NavItem {
 export const navItems: NavItem[] = [
   { to: '/runs', label: 'Runs', permission: 'runs.read', group: 'work' },
   { to: '/workbench', label: 'Workbench', permission: 'runs.create', group: 'work' },
+  { to: '/studies', label: 'Studies', permission: 'runs.read', group: 'work' },
   { to: '/keys', label: 'API keys', permission: 'keys.read', group: 'tenant' },
   { to: '/webhooks', label: 'Webhooks', permission: 'webhooks.read', group: 'tenant' },
   { to: '/export-profiles', label: 'CSV exports', permission: 'exportProfiles.read', group: 'tenant' },

@@ -15,14 +15,17 @@ import { KeysRoute } from '@/features/keys/routes/keys';
 import { OutboxRoute } from '@/features/operator/routes/outbox';
 import { TenantsRoute } from '@/features/operator/routes/tenants';
 import { RunsListRoute } from '@/features/runs/routes/runs-list';
+import { StudiesListRoute } from '@/features/studies/routes/studies-list';
 import { TeamRoute } from '@/features/team/routes/team';
 import { WebhooksRoute } from '@/features/webhooks/routes/webhooks';
 import { AppShell, HomeRedirect } from './app-shell';
 import { NotFoundRoute } from './not-found';
 
 // The editor and the chart library are most of the bundle; only the screens that use them load them.
-const RunDetailRoute = lazy(() => import('@/features/runs/routes/run-detail').then((m) => ({ default: m.RunDetailRoute })));
+const RunPage = lazy(() => import('./run-page').then((m) => ({ default: m.RunPage })));
 const WorkbenchRoute = lazy(() => import('@/features/workbench/routes/workbench').then((m) => ({ default: m.WorkbenchRoute })));
+const StudyNewRoute = lazy(() => import('@/features/studies/routes/study-new').then((m) => ({ default: m.StudyNewRoute })));
+const StudyDetailRoute = lazy(() => import('@/features/studies/routes/study-detail').then((m) => ({ default: m.StudyDetailRoute })));
 const UsageRoute = lazy(() => import('@/features/usage/routes/usage').then((m) => ({ default: m.UsageRoute })));
 const TenantDetailRoute = lazy(() => import('@/features/operator/routes/tenant-detail').then((m) => ({ default: m.TenantDetailRoute })));
 
@@ -42,8 +45,11 @@ export const router = createBrowserRouter([
     children: [
       { index: true, element: <HomeRedirect /> },
       { path: 'runs', element: guarded('runs.read', <RunsListRoute />) },
-      { path: 'runs/:runId', element: guarded('runs.read', <RunDetailRoute />) },
+      { path: 'runs/:runId', element: guarded('runs.read', <RunPage />) },
       { path: 'workbench', element: guarded('runs.create', <WorkbenchRoute />) },
+      { path: 'studies', element: guarded('runs.read', <StudiesListRoute />) },
+      { path: 'studies/new', element: guarded('runs.create', <StudyNewRoute />) },
+      { path: 'studies/:studyId', element: guarded('runs.read', <StudyDetailRoute />) },
       { path: 'keys', element: guarded('keys.read', <KeysRoute />) },
       { path: 'webhooks', element: guarded('webhooks.read', <WebhooksRoute />) },
       { path: 'export-profiles', element: guarded('exportProfiles.read', <ExportProfilesRoute />) },

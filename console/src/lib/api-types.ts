@@ -983,6 +983,214 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/runs/{runId}/replans": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Re-plan a run from measured state; the re-plan is a new run linked to it.
+         * @description During the day the plan drifts from what happens. Send the step to re-plan from (a step
+         *     index of this run's horizon or the instant a step starts), what was measured then (each
+         *     battery's state of charge, each store's level, each unit's on/off, time in that state and
+         *     output, the demand-charge peaks reached so far this billing period) and, optionally, fresh
+         *     forecasts for the remaining steps. The new run's spec is this run's from that step to the end
+         *     of its horizon with the measured state as its initial state (`initial.on/stepsInState/powerKw`,
+         *     `initialSocKwh`, a store's `initial`, `existingPeakKw`); what the request leaves out is taken
+         *     from this run's schedule. It is validated like any spec, and an error names the request's
+         *     field (`/state/storage/bess-1/socKwh`, `/series/supplyKw`), queued like any run, counted by the
+         *     quotas like any run, and replayed for a repeated **Idempotency-Key** as `POST /v1/runs` does.
+         *     The schedule before the re-plan step stays this run's; the new run's schedule and CSV export
+         *     cover the steps from it on. `GET /v1/runs/{runId}/revisions` lists the chain.
+         */
+        post: operations["createReplan"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/runs/{runId}/planned-state": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        /**
+         * The state the schedule leaves at the start of a step, as a re-plan would assume it.
+         * @description Each battery's state of charge and each store's level at the end of the step before, each
+         *     unit's on/off, time in that state and output, and each demand charge's peak so far. A
+         *     re-plan from that step takes these for whatever it is not told; send them, edited with what
+         *     was measured, as its `state`.
+         */
+        get: operations["getPlannedState"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/runs/{runId}/revisions": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        /**
+         * The chain of revisions this run belongs to.
+         * @description The first run and every re-plan made from it or from one of its re-plans, by the step each starts at in the first run's horizon.
+         */
+        get: operations["listRevisions"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/runs/{runId}/revision-diff": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        /**
+         * What changed between this revision and another of its chain, step by step.
+         * @description Over the steps both schedules cover (from the later start to the end of the horizon): every
+         *     column of the schedule export for both and their difference, and the objective terms of
+         *     both, each schedule priced by the later revision's spec (its measured initial state, fresh
+         *     prices and peaks so far), so the two are valued alike. Schedules are advisory: a qualified
+         *     operator approves setpoints before use.
+         */
+        get: operations["getRevisionDiff"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/studies": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The tenant's studies with their progress, newest first.
+         * @description Cursor pagination; the `Link` header carries `rel="next"` while more studies exist.
+         */
+        get: operations["listStudies"];
+        put?: never;
+        /**
+         * Run a base spec under every combination of a small grid of changes.
+         * @description Each change is a JSON Pointer into the base spec and a list of values; the study runs every
+         *     combination (the product of the lists, at most 64). Every combination is applied and
+         *     validated before anything is created: a pointer the base spec does not have, or a value that
+         *     makes a combination invalid, is a 400 naming the change (`/changes/1/values/0`) and the
+         *     combination. Then one transaction creates the study and one queued run per combination; the
+         *     runs are ordinary runs, solved by any worker process on any machine, and take their turns in
+         *     the tenant-fair queue, so a study never holds another tenant back by more than one run. Each
+         *     run counts against the monthly runs quota and the plan's runs queued or running at once: a
+         *     study larger than the plan allows at once is 422 (`/problems/plan-concurrent-runs`), one
+         *     that does not fit beside the runs in progress now is 429.
+         */
+        post: operations["createStudy"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/studies/{studyId}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+                studyId: components["parameters"]["StudyId"];
+            };
+            cookie?: never;
+        };
+        /** A study's progress (runs done of all, each run's window progress) and its runs. */
+        get: operations["getStudy"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/studies/{studyId}/comparison": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+                studyId: components["parameters"]["StudyId"];
+            };
+            cookie?: never;
+        };
+        /**
+         * The study's runs side by side.
+         * @description Per combination: objective and its terms, energy imported, exported, curtailed and unserved,
+         *     unit starts, demand-charge peaks and a link to the run; null until the run has a schedule.
+         *     Schedules are advisory: a qualified operator approves setpoints before use.
+         */
+        get: operations["getStudyComparison"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/studies/{studyId}/cancel": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+                studyId: components["parameters"]["StudyId"];
+            };
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Cancel every queued or running run of the study; ended runs keep their results. */
+        post: operations["cancelStudy"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/series": {
         parameters: {
             query?: never;
@@ -1564,12 +1772,38 @@ export interface components {
                 code: "infeasible" | "no-solution" | "time-limit" | "solver-error" | "invalid-spec" | "cancelled" | "worker-lost";
                 message: string;
             } | null;
+            /** @description Set on a re-plan (`POST /v1/runs/{runId}/replans`): its place in the chain of revisions. Its schedule covers the steps from the re-plan time on; the steps before it stay the parent's. null for a run submitted on its own. */
+            revision: {
+                /**
+                 * Format: uuid
+                 * @description The run this one re-plans.
+                 */
+                parentId: string;
+                /**
+                 * Format: uuid
+                 * @description The first run of the chain of revisions.
+                 */
+                rootId: string;
+                /** @description The step of the parent's horizon this run starts at (the re-plan time). */
+                fromStep: number;
+                /** @description The same step counted in the first run's horizon. */
+                rootStep: number;
+            } | null;
+            /** @description Set on a run a study created (`POST /v1/studies`); null otherwise. */
+            study: {
+                /** Format: uuid */
+                id: string;
+                /** @description The run's combination in the study's grid, counted from 0 (the last change varies fastest). */
+                position: number;
+            } | null;
             links: {
                 self: string;
                 spec: string;
                 schedule: string;
                 cancel: string;
                 deliveries: string;
+                replans: string;
+                revisions: string;
             };
             objective?: {
                 /** @description The SPEC.md §2 objective evaluated on the returned schedule; null when there is no schedule. */
@@ -1791,6 +2025,306 @@ export interface components {
         SolveOutcome: "optimal" | "feasible" | "infeasible" | "no-solution";
         /** @enum {string} */
         RunStatus: "queued" | "running" | "succeeded" | "failed" | "cancelled";
+        /** @description A re-plan of a run that has a schedule: the parent's spec from `from` to the end of its horizon, starting from the measured state, with fresh series where given. The new run is validated and queued like any run. */
+        ReplanRequest: {
+            /**
+             * @description Where the re-plan starts: a step index of the parent's horizon, or the instant a step starts (any offset). From 0 to the parent's last step; other instants are refused with a 400 naming this field.
+             * @example 12
+             * @example 2027-03-01T12:00:00+01:00
+             */
+            from: number | string;
+            /** @default {} */
+            state?: components["schemas"]["MeasuredState"];
+            /** @default {} */
+            series?: components["schemas"]["FreshSeries"];
+            /** @description Default: the parent's name and the re-plan time. */
+            name?: string;
+        };
+        /** @description Fresh forecasts for the remaining steps, each one value per step from `from` to the horizon's end (or one figure where the spec allows one). Anything left out keeps the parent's values for those steps. */
+        FreshSeries: {
+            /** @description Available supply per remaining step. */
+            supplyKw?: number[];
+            /** @description Site load per remaining step (a hard load when the parent had none). */
+            siteLoadKw?: number[];
+            importPrice?: number | number[];
+            exportPrice?: number | number[];
+            /** @description By store id: its demand per hour. */
+            storeDemandPerHour?: {
+                [key: string]: number | number[];
+            };
+            /** @description Spinning reserve to hold (the parent must have a reserve requirement). */
+            reserveUpKw?: number | number[];
+        };
+        /** @description What was measured at the re-plan time. Anything left out is taken from the plan: the value the parent schedules for the end of the step before `from` (its initial state when `from` is 0), and for a demand charge the larger of its `existingPeakKw` and the planned import in its window before `from`. */
+        MeasuredState: {
+            /**
+             * @description By battery id: the state of charge now. Becomes the re-plan's `initialSocKwh`.
+             * @default {}
+             */
+            storage?: {
+                [key: string]: {
+                    socKwh: number;
+                };
+            };
+            /**
+             * @description By store id: the level now, in the store's unit. Becomes the store's `initial`.
+             * @default {}
+             */
+            stores?: {
+                [key: string]: {
+                    level: number;
+                };
+            };
+            /**
+             * @description By unit id: on/off, time in that state and output now. Become the unit's `initial`.
+             * @default {}
+             */
+            units?: {
+                [key: string]: components["schemas"]["MeasuredUnitState"];
+            };
+            /**
+             * @description By demand-charge id: the peak reached so far this billing period. Becomes its `existingPeakKw`.
+             * @default {}
+             */
+            demandCharges?: {
+                [key: string]: {
+                    peakKw: number;
+                };
+            };
+        };
+        MeasuredUnitState: {
+            /** @description Absent: as planned for the step before `from`. */
+            on?: boolean;
+            /** @description Steps the unit has been in that state. Absent: counted from the plan; required when `on` differs from it. */
+            stepsInState?: number;
+            /** @description Output now (the ramp limits apply from it). Absent: as planned when the plan has the unit on too, else no ramp limit at the first step. */
+            powerKw?: number;
+        };
+        RevisionDiff: {
+            base: {
+                /** Format: uuid */
+                id: string;
+                rootStep: number;
+            };
+            revision: {
+                /** Format: uuid */
+                id: string;
+                rootStep: number;
+            };
+            /** @description The first step both cover, in the first run's horizon: the later start of the two. */
+            fromRootStep: number;
+            /**
+             * Format: uuid
+             * @description The revision whose spec values both schedules (the one that starts later; on a tie, `revision`): its initial state, prices and peaks so far, so the two are priced alike over the same steps.
+             */
+            valuedWith: string;
+            timestamps: string[];
+            /** @description Every column of the schedule export, step by step over the common steps (revision − base). */
+            setpoints: {
+                /** @description The CSV export's column name, e.g. `ely-1.powerKw` or `grid.importKw`; marginal values (prices, not setpoints) are left out. */
+                key: string;
+                /**
+                 * @description `store unit`: a store's level, shortfall or spill, in the store's own unit.
+                 * @enum {string}
+                 */
+                unit: "kW" | "kWh" | "on/off" | "store unit";
+                base: number[];
+                revision: number[];
+                /** @description Steps where the two differ by more than 1e-6. */
+                changedSteps: number;
+                /** @description The largest absolute difference over the steps. */
+                largestChange: number;
+            }[];
+            /** @description The objective terms of each schedule over the common steps, and revision − base. */
+            objective: {
+                base: {
+                    terms: components["schemas"]["ObjectiveTerms"];
+                    total: number;
+                };
+                revision: {
+                    terms: components["schemas"]["ObjectiveTerms"];
+                    total: number;
+                };
+                change: {
+                    terms: components["schemas"]["ObjectiveTerms"];
+                    total: number;
+                };
+            };
+        };
+        RevisionChain: {
+            /** Format: uuid */
+            rootId: string;
+            stepMinutes: number;
+            /** @description The first run and every re-plan made from it or from one of its re-plans, by start step, then by creation. */
+            items: components["schemas"]["Revision"][];
+        };
+        Revision: {
+            /** Format: uuid */
+            id: string;
+            name: string | null;
+            status: components["schemas"]["RunStatus"];
+            outcome: string | null;
+            /**
+             * Format: uuid
+             * @description null for the first run of the chain.
+             */
+            parentId: string | null;
+            /** @description The step of the parent's horizon the revision starts at. */
+            fromStep: number | null;
+            /** @description The step of the first run's horizon the revision starts at. */
+            rootStep: number;
+            /** Format: date-time */
+            startsAt: string;
+            steps: number;
+            /** Format: date-time */
+            createdAt: string;
+            /** @description The revision's own objective: over its steps, from its own initial state. */
+            objective: number | null;
+            links: {
+                self: string;
+            };
+        };
+        /** @description The state the schedule leaves at the start of a step, in the shape of a re-plan's `state`: what a re-plan from that step assumes for anything it is not told. */
+        PlannedState: {
+            /** @description The step of the run's horizon the state is at the start of. */
+            from: number;
+            /** Format: date-time */
+            startsAt: string;
+            state: {
+                storage: {
+                    [key: string]: {
+                        socKwh: number;
+                    };
+                };
+                stores: {
+                    [key: string]: {
+                        level: number;
+                    };
+                };
+                units: {
+                    [key: string]: {
+                        on: boolean;
+                        stepsInState: number;
+                        /** @description null when off. */
+                        powerKw: number | null;
+                    };
+                };
+                demandCharges: {
+                    [key: string]: {
+                        peakKw: number;
+                    };
+                };
+            };
+        };
+        /** @description A base spec and a grid of changes. Every combination is applied to the base spec and validated before anything is created; then one transaction creates the study and one queued run per combination. */
+        StudyRequest: {
+            name?: string;
+            baseSpec: components["schemas"]["SiteSpec"];
+            /** @description 1–4 changes; the study runs every combination of their values (the product of the lists, at most 64, and at most the runs the plan lets the tenant have queued or running at once). */
+            changes: components["schemas"]["StudyChange"][];
+        };
+        StudyChange: {
+            /** @description RFC 6901 JSON Pointer to a field that exists in the base spec. */
+            pointer: string;
+            /** @description A short name for tables and charts; default: the pointer. */
+            label?: string;
+            /** @description 1–16 JSON values put at the pointer in turn (a number, a price array, a whole battery…). */
+            values: unknown[];
+        };
+        StudyComparison: {
+            /** Format: uuid */
+            studyId: string;
+            changes: {
+                pointer: string;
+                label: string;
+                values: unknown[];
+            }[];
+            /** @description One per combination, in grid order; figures are null until its run has a schedule. */
+            rows: {
+                position: number;
+                values: unknown[];
+                /** Format: uuid */
+                runId: string;
+                status: components["schemas"]["RunStatus"];
+                outcome: string | null;
+                /** @description null until the run has a schedule. */
+                objective: number | null;
+                objectiveTerms: components["schemas"]["ObjectiveTerms"] | null;
+                importKwh: number | null;
+                exportKwh: number | null;
+                curtailedKwh: number | null;
+                unservedKwh: number | null;
+                /** @description Starts of all units together. */
+                starts: number | null;
+                /** @description By demand-charge id: the peak the schedule sets (kW). */
+                demandChargePeaks: {
+                    [key: string]: number;
+                };
+                solverSeconds: number | null;
+                links: {
+                    run: string;
+                };
+            }[];
+            /** @description The position with the highest objective among the runs with a schedule. */
+            best: number | null;
+        };
+        Study: {
+            /** Format: uuid */
+            id: string;
+            name: string | null;
+            status: components["schemas"]["StudyStatus"];
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            cancelRequestedAt: string | null;
+            changes: {
+                pointer: string;
+                label: string;
+                values: unknown[];
+            }[];
+            progress: {
+                runsTotal: number;
+                /** @description Runs that have ended: succeeded, failed or cancelled. */
+                runsDone: number;
+                succeeded: number;
+                failed: number;
+                cancelled: number;
+                running: number;
+                queued: number;
+                /** @description The runs' progress averaged: an ended run counts 100, a running one its windows done. */
+                percent: number;
+            };
+            /** @description Each combination and its run (not in lists). */
+            runs?: {
+                position: number;
+                /** @description The value of each change in this combination, in the order of `changes`. */
+                values: unknown[];
+                /** Format: uuid */
+                runId: string;
+                name: string | null;
+                status: components["schemas"]["RunStatus"];
+                outcome: string | null;
+                progress: {
+                    windowsDone: number;
+                    windowsTotal: number | null;
+                    percent: number;
+                };
+                /** Format: date-time */
+                startedAt: string | null;
+                /** Format: date-time */
+                finishedAt: string | null;
+            }[];
+            links: {
+                self: string;
+                comparison: string;
+                cancel: string;
+            };
+        };
+        /**
+         * @description `running` while any of its runs is queued or running; then `cancelled` if it was cancelled, else `finished`.
+         * @enum {string}
+         */
+        StudyStatus: "running" | "finished" | "cancelled";
         SpecValidation: {
             /** @constant */
             valid: true;
@@ -2397,6 +2931,8 @@ export interface components {
         /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
         RunId: string;
         EndpointId: string;
+        /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+        StudyId: string;
     };
     requestBodies: never;
     headers: never;
@@ -4214,6 +4750,324 @@ export interface operations {
                 };
                 content: {
                     "application/json": components["schemas"]["WebhookDeliveryList"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+        };
+    };
+    createReplan: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description 1–255 visible ASCII characters, optionally as a quoted Structured Field string. The key is bound to this parent and body. */
+                "Idempotency-Key"?: string;
+            };
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["ReplanRequest"];
+            };
+        };
+        responses: {
+            /** @description Accepted and queued (or, with a replayed Idempotency-Key, the re-plan that key created). */
+            202: {
+                headers: {
+                    /** @description The new run. */
+                    Location?: string;
+                    /** @description `true` when the key had been seen with the same body. */
+                    "Idempotent-Replayed"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Run"];
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+            /** @description This run has no schedule to re-plan (not finished, infeasible, cancelled or failed), or its spec no longer resolves. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The Idempotency-Key was used with a different body or parent, or the re-plan exceeds the plan's caps. */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            429: components["responses"]["TooManyRequests"];
+        };
+    };
+    getPlannedState: {
+        parameters: {
+            query?: {
+                /**
+                 * @description A step index, or the instant a step starts. Default: the step under way now (the first or last step when now is outside the horizon).
+                 * @example 2027-03-01T09:00:00+01:00
+                 */
+                at?: string;
+            };
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The planned state. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["PlannedState"];
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+            /** @description The run has no schedule, or its spec no longer resolves. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listRevisions: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The chain. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["RevisionChain"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+        };
+    };
+    getRevisionDiff: {
+        parameters: {
+            query?: {
+                /** @description The revision to compare with: any run of the same chain. Default: the run this one re-plans. */
+                base?: string;
+            };
+            header?: never;
+            path: {
+                /** @example 3d9b6c1e-2f4a-4b8c-9d0e-7a6b5c4d3e2f */
+                runId: components["parameters"]["RunId"];
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The difference. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["RevisionDiff"];
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+            /** @description One of the two has no schedule, the later one's spec no longer resolves, or no `base` was named for the first run of a chain. */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    listStudies: {
+        parameters: {
+            query?: {
+                limit?: number;
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description A page of studies (without their runs). */
+            200: {
+                headers: {
+                    /** @description `</v1/studies?…&cursor=…>; rel="next"` when there is a next page. */
+                    Link?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    /**
+                     * @example {
+                     *       "items": [],
+                     *       "nextCursor": null
+                     *     }
+                     */
+                    "application/json": {
+                        items: components["schemas"]["Study"][];
+                        nextCursor: string | null;
+                    };
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+        };
+    };
+    createStudy: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["StudyRequest"];
+            };
+        };
+        responses: {
+            /** @description Accepted; every run is queued. */
+            202: {
+                headers: {
+                    /** @description The study. */
+                    Location?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Study"];
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            /** @description A combination exceeds the plan's caps on steps or units, or the study has more runs than the plan allows at once. */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            429: components["responses"]["TooManyRequests"];
+        };
+    };
+    getStudy: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+                studyId: components["parameters"]["StudyId"];
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The study. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Study"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+        };
+    };
+    getStudyComparison: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+                studyId: components["parameters"]["StudyId"];
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The comparison. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StudyComparison"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+        };
+    };
+    cancelStudy: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @example 5b2e8f1a-7c3d-4e9f-8a1b-2c3d4e5f6a7b */
+                studyId: components["parameters"]["StudyId"];
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Cancelled, or cancellation requested for the running runs. */
+            202: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Study"];
                 };
             };
             401: components["responses"]["Unauthorized"];

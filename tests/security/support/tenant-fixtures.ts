@@ -34,6 +34,10 @@ export async function createTenantWithResources(t: TestApp, doc: Record<string, 
   const run = await asOwner('post', '/v1/runs').send({ ...ex, name: `${marker} run`, solver: { ...(ex.solver ?? {}), timeLimitSeconds: 5 } });
   expect(run.status, JSON.stringify(run.body)).toBe(202);
   fixtures.set('/v1/runs', run.body.id);
+  const studyExample = doc.components.examples.StudyRequestExample.value;
+  const study = await asOwner('post', '/v1/studies').send({ ...studyExample, name: `${marker} study` });
+  expect(study.status, JSON.stringify(study.body)).toBe(202);
+  fixtures.set('/v1/studies', study.body.id);
   const series = await request(t.app)
     .post(`/v1/series?name=${marker}-series`)
     .set('Authorization', `Bearer ${tenant.apiKey}`)

@@ -37,4 +37,12 @@ export class Run {
   @Column('jsonb', { nullable: true }) error!: RunError | null;
   @Column('text', { name: 'solver_log' }) solverLog!: string;
   @Column('double precision', { name: 'solver_seconds', nullable: true }) solverSeconds!: number | null;
+  /** A re-plan's parent, the first run of its chain, and the step it starts at in each one's horizon (runs/replanning.ts). */
+  @Column('uuid', { name: 'parent_run_id', nullable: true }) parentRunId!: string | null;
+  @Column('uuid', { name: 'root_run_id', nullable: true }) rootRunId!: string | null;
+  @Column('integer', { name: 'replan_from_step', nullable: true }) replanFromStep!: number | null;
+  @Column('integer', { name: 'root_step' }) rootStep!: number;
+  /** The study that created the run and the run's place in its grid (studies/). */
+  @Column('uuid', { name: 'study_id', nullable: true }) studyId!: string | null;
+  @Column('integer', { name: 'study_position', nullable: true }) studyPosition!: number | null;
 }

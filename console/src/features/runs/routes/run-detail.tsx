@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { AdvisoryNote } from '@/components/advisory-note';
 import { CodeSnippetPanel } from '@/components/code-snippet-panel';
@@ -6,7 +6,7 @@ import { JsonViewer } from '@/components/json-viewer';
 import { PageHeader } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
 import { EmptyState, Loading } from '@/components/states';
-import { useRun } from '@/lib/queries/runs';
+import { useRun, type Run } from '@/lib/queries/runs';
 import { runResult, useRunSpec } from '../api';
 import { DispatchView } from '../components/dispatch-view';
 import { DownloadsPanel } from '../components/downloads-panel';
@@ -23,17 +23,25 @@ const views = [
   { id: 'code', label: 'Call from code' },
   { id: 'deliveries', label: 'Webhook deliveries' },
 ] as const;
-type View = (typeof views)[number]['id'];
 
-export function RunDetailRoute() {
+/** A tab another feature adds to the run page (placed by the app, since features never import each other). */
+export interface RunPageSection {
+  id: string;
+  label: string;
+  render: (run: Run) => ReactNode;
+}
+
+export function RunDetailRoute({ sections = [] }: { sections?: RunPageSection[] }) {
   const { runId = '' } = useParams();
   const [params, setParams] = useSearchParams();
-  const view = (views.find((v) => v.id === params.get('view'))?.id ?? 'dispatch') as View;
+  const tabs: { id: string; label: string }[] = [...views, ...sections];
+  const view = tabs.find((v) => v.id === params.get('view'))?.id ?? 'dispatch';
+  const section = sections.find((v) => v.id === view);
   const [pointer, setPointer] = useState<string | null>(null);
   const run = useRun(runId);
   const spec = useRunSpec(runId);
 
-  const show = (v: View) => setParams((p) => {
+  const show = (v: string) => setParams((p) => {
     p.set('view', v);
     return p;
   }, { replace: true });
@@ -59,7 +67,7 @@ export function RunDetailRoute() {
       />
       <RunStatusBar run={r} />
       <div role="tablist" aria-label="Run views" className="mb-3 flex gap-1 overflow-x-auto border-b border-ash-200">
-        {views.map((v) => (
+        {tabs.map((v) => (
           <button
             key={v.id}
             role="tab"
@@ -72,8 +80,10 @@ export function RunDetailRoute() {
           </button>
         ))}
       </div>
-      <div role="tabpanel" aria-label={views.find((v) => v.id === view)?.label}>
-        {view === 'spec' ? (
+      <div role="tabpanel" aria-label={tabs.find((v) => v.id === view)?.label}>
+        {section ? (
+          section.render(r)
+        ) : view === 'spec' ? (
           spec.isPending ? <Loading /> : spec.error ? <ProblemAlert error={spec.error} /> : <JsonViewer value={spec.data} pointer={pointer} />
         ) : view === 'code' ? (
           spec.isPending ? <Loading /> : spec.error ? <ProblemAlert error={spec.error} /> : <CodeSnippetPanel spec={spec.data} />
