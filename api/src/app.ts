@@ -1,4 +1,3 @@
-import { randomUUID } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -6,7 +5,6 @@ import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import * as OpenApiValidator from 'express-openapi-validator';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import swaggerUi from 'swagger-ui-express';
 import { parse as parseYaml } from 'yaml';
 import { authenticateFirst } from './auth/authenticate-first';
@@ -15,7 +13,9 @@ import type { AppContext } from './context';
 import { databaseReadiness } from './db/data-source';
 import { closeIfBodyUnread, documentedOperations } from './lib/documented-operations';
 import { errorHandler, notFoundHandler } from './lib/error-handler';
+import { compileOpenApiRoutePatternsOnce } from './lib/openapi-route-patterns';
 import { HttpProblem, problemType } from './lib/problem';
+import { requestLog } from './lib/request-log';
 import { STRICT_ROUTING } from './lib/strict-router';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
@@ -62,18 +62,7 @@ export function buildApp(ctx: AppContext): Express {
   app.set('trust proxy', ctx.config.trustProxy);
   app.set('query parser', 'extended');
 
-  app.use(
-    pinoHttp({
-      logger: ctx.log,
-      genReqId: (req, res) => {
-        const incoming = req.headers['x-request-id'];
-        const id = typeof incoming === 'string' && /^[\w.-]{1,100}$/.test(incoming) ? incoming : randomUUID();
-        res.setHeader('X-Request-Id', id);
-        return id;
-      },
-      autoLogging: { ignore: (req) => req.url === '/healthz' || req.url === '/metrics' },
-    }),
-  );
+  app.use(requestLog(ctx.log, { ignore: (url) => url === '/healthz' || url === '/metrics' }));
   app.use(
     helmet({
       // Behind plain http on loopback, upgrading requests or pinning HSTS would break the console.
@@ -153,6 +142,7 @@ export function buildApp(ctx: AppContext): Express {
     }
     body.parse(req, res, next);
   });
+  compileOpenApiRoutePatternsOnce();
   app.use(
     OpenApiValidator.middleware({
       apiSpec: validatorDoc,
@@ -164,7 +154,10 @@ export function buildApp(ctx: AppContext): Express {
     }),
   );
 
-  // Resource routers are mounted here, one per resource (see DEVELOPERS.md).
+  // Resource routers are mounted here, one per resource (see DEVELOPERS.md). Their paths do not
+  // overlap; runs come first because clients poll GET /v1/runs/{id}, and every router before it
+  // tries its routes on each poll.
+  app.use(runsRouter(ctx));
   app.use(authRouter(ctx));
   app.use(membersRouter(ctx));
   app.use(apiKeysRouter(ctx));
@@ -173,7 +166,6 @@ export function buildApp(ctx: AppContext): Express {
   app.use(auditRouter(ctx));
   app.use(adminTenantsRouter(ctx));
   app.use(outboxRouter(ctx));
-  app.use(runsRouter(ctx));
   app.use(specsRouter(ctx));
   app.use(seriesRouter(ctx));
   app.use(webhookEndpointsRouter(ctx));

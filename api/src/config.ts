@@ -71,6 +71,7 @@ export const environmentSchema = z
     PASSWORD_RESET_MINUTES: decimalNumber({ above: 0 }).default(60),
     PASSWORD_RESET_EMAILS_PER_HOUR: wholeNumber(1).default(3),
     RATE_LIMIT_WINDOW_SECONDS: wholeNumber(1).default(10),
+    CREDENTIAL_CACHE_SECONDS: wholeNumber(0, 3600).default(10),
     WORKER_CONCURRENCY: wholeNumber(1).default(1),
     SOLVER_THREADS: wholeNumber(1).optional(),
     IDEMPOTENCY_HOURS: decimalNumber({ above: 0 }).default(24),
@@ -148,6 +149,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     localSmtpPort: e.LOCAL_SMTP_PORT,
     /** A credential may send `requestsPerSecond × this` requests per window of this many seconds, the tenant three times that. */
     rateLimitWindowSeconds: e.RATE_LIMIT_WINDOW_SECONDS,
+    /** How long an API process may keep a key or tenant it looked up, should a change notice be missed (0: never keep one). */
+    credentialCacheSeconds: e.CREDENTIAL_CACHE_SECONDS,
     /** Failed sign-ins per account before it is locked; per address the limit is ten times this. */
     signInMaxFailures: e.SIGNIN_MAX_FAILURES,
     signInLockMinutes: e.SIGNIN_LOCK_MINUTES,

@@ -5,8 +5,9 @@
  *
  * Sections: each formulation reduction on vs off; monolithic vs rolling horizon and a rolling
  * 15-minute year; HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
- * solver worker over many consecutive small solves; and how fast one worker process drains the
- * run queue against the bound its solves set (on a throwaway PostgreSQL, `queue-throughput.ts`).
+ * solver worker over many consecutive small solves; how fast one worker process drains the run
+ * queue against the bound its solves set (`queue-throughput.ts`); and API reads against a bare
+ * Express route (`api-reads.ts`), both on a throwaway PostgreSQL.
  */
 import { execFileSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
@@ -19,6 +20,7 @@ import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
 import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { solvePlain } from '../reference/support/plain-formulation';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/support/specs';
+import { apiReadsSection } from './api-reads';
 import { queueThroughputSection } from './queue-throughput';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
 
@@ -251,6 +253,13 @@ async function queueSection(): Promise<void> {
   }
 }
 
+async function apiReads(): Promise<void> {
+  const section = 'API reads: autocannon, 50 connections, loopback';
+  const result = await apiReadsSection({ quick, log });
+  for (const row of result.rows) rows.push({ section, ...row });
+  summary.push(...result.summary);
+}
+
 function machine(): string[] {
   const cpu = /model name\s*:\s*(.+)/.exec(readFileSync('/proc/cpuinfo', 'utf8'))?.[1] ?? os.cpus()[0]?.model ?? 'unknown';
   const nproc = execFileSync('nproc', { encoding: 'utf8' }).trim();
@@ -284,6 +293,7 @@ async function main(): Promise<void> {
   await solverSection();
   await memorySection();
   await queueSection();
+  await apiReads();
   const seconds = (performance.now() - started) / 1000;
   const md = [
     '# Gridwright benchmark results',
@@ -293,7 +303,9 @@ async function main(): Promise<void> {
     '"Solve s" are the engine\'s reported model-building and solver seconds, summed over windows and blocks',
     '(parallel parts overlap, so they can exceed the elapsed time); "Wall s" is the elapsed time from the',
     'call to the verified result, and every comparison uses it. GLPK times are its in-process solve of',
-    'the plain formulation (tests/reference/support/plain-formulation.ts).',
+    'the plain formulation (tests/reference/support/plain-formulation.ts). API reads are requests per second',
+    'from autocannon against an API process with production settings and, in the same run, against a bare',
+    'Express app serving the same JSON (tests/bench/api-reads.ts).',
     '',
     ...machine(),
     `- Total bench time: ${seconds.toFixed(0)} s`,

@@ -1,13 +1,12 @@
 import type { Request, RequestHandler } from 'express';
 import type { AppContext } from '../context';
-import { Plan } from '../db/entities/plan';
-import { Tenant } from '../db/entities/tenant';
+import type { Tenant } from '../db/entities/tenant';
 import { HttpProblem } from '../lib/problem';
 import { safeEqual } from '../lib/secret-tokens';
 import { verifyApiKey } from '../services/api-keys';
 import { enforceRequestRate } from '../services/rate-limits';
 import { CSRF_COOKIE, CSRF_HEADER, SESSION_COOKIE, resolveSession } from '../services/sessions';
-import { effectiveLimits, findTenant } from '../services/tenants';
+import { effectiveLimits, findTenantAndPlan } from '../services/tenants';
 import { needsTenant, permissions, roleAllows, scopeAllows, scopesForRole, type Action } from './permissions';
 import type { Principal } from './principal';
 
@@ -32,10 +31,8 @@ export const tenantSuspended = (tenant: Tenant) =>
   });
 
 async function tenantWithLimits(ctx: AppContext, tenantId: string) {
-  const tenant = await findTenant(ctx.db.manager, tenantId);
-  if (!tenant) return null;
-  const plan = await ctx.db.manager.findOneByOrFail(Plan, { id: tenant.planId });
-  return { tenant, limits: effectiveLimits(plan, tenant.limitOverrides) };
+  const found = await findTenantAndPlan(ctx, tenantId);
+  return found && { tenant: found.tenant, limits: effectiveLimits(found.plan, found.tenant.limitOverrides) };
 }
 
 async function fromApiKey(ctx: AppContext, header: string): Promise<{ principal: Principal; rps: number }> {
@@ -76,9 +73,9 @@ async function fromSession(ctx: AppContext, req: Request, token: string): Promis
   if (user.role === 'operator') {
     const chosen = req.get(TENANT_HEADER);
     if (!chosen) return { principal: { ...base, tenantId: '' }, rps: null };
-    const t = await findTenant(ctx.db.manager, chosen);
+    const t = await findTenantAndPlan(ctx, chosen);
     if (!t) throw new HttpProblem({ status: 404, slug: 'not-found', title: 'Not found', detail: `Tenant ${chosen} (${TENANT_HEADER} header) was not found.` });
-    return { principal: { ...base, tenantId: t.id }, rps: null };
+    return { principal: { ...base, tenantId: t.tenant.id }, rps: null };
   }
   const t = await tenantWithLimits(ctx, user.tenantId!);
   if (!t) throw unauthenticated('The session is not known.');

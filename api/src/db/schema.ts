@@ -23,8 +23,10 @@ import { Series1780000300000 } from './migrations/1780000300000-series';
 import { Webhooks1780000310000 } from './migrations/1780000310000-webhooks';
 import { ExportProfiles1780000320000 } from './migrations/1780000320000-export-profiles';
 import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-status-check';
+import { CredentialChangeNotices1780000520000 } from './migrations/1780000520000-credential-change-notices';
 import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues';
 import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
+import { RatePointReservations1780000530000 } from './migrations/1780000530000-rate-point-reservations';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -38,5 +40,6 @@ export const migrations: Constructor[] = [
   Runs1780000100000, QueueSchema1780000110000, Series1780000300000, Webhooks1780000310000, ExportProfiles1780000320000,
   RunStatusCheck1780000400000,
   InputGuards1780000500000,
+  CredentialChangeNotices1780000520000, RatePointReservations1780000530000,
   FairQueues1780000600000,
 ];

@@ -6,10 +6,10 @@ import { strictRouter } from '../lib/strict-router';
 import { cancelRun } from '../runs/cancellation';
 import { delimiterNamed } from '../lib/csv-delimiters';
 import { optionalInstant } from '../lib/instants';
-import { getRun, listRunDeliveries, listRuns } from '../runs/reading';
+import { getRun, getRunDetailJson, listRunDeliveries, listRuns } from '../runs/reading';
 import { getRunSchedule, scheduleCsvFor, type ScheduleCsvChoices } from '../runs/schedule-export';
 import { submitRun } from '../runs/submission';
-import { runDetail, runSummary } from '../runs/view';
+import { runSummary } from '../runs/view';
 import { parseIdempotencyKey } from '../services/idempotency';
 import { deliveryView } from '../services/webhooks';
 
@@ -65,7 +65,7 @@ export function runsRouter(ctx: AppContext): Router {
   });
 
   r.get('/v1/runs/:runId', auth, authorize('runs.read'), async (req, res) => {
-    res.json(runDetail(await getRun(ctx, req.principal!.tenantId, String(req.params.runId))));
+    res.type('application/json').send(await getRunDetailJson(ctx, req.principal!.tenantId, String(req.params.runId)));
   });
 
   r.get('/v1/runs/:runId/spec', auth, authorize('runs.read'), async (req, res) => {

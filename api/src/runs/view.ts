@@ -1,6 +1,9 @@
 import type { RunResult, RunView } from '@gridwright/shared/run-result';
 import type { Run } from '../db/entities/run';
 
+/** What a run is shown as: every column but the spec, the solver log and the bookkeeping of who and where. */
+export type RunForView = Omit<Run, 'spec' | 'seriesId' | 'timeLimitSeconds' | 'createdByUserId' | 'createdByApiKeyId' | 'workerId' | 'solverLog'>;
+
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
 export function runLinks(id: string) {
@@ -14,7 +17,7 @@ export function runLinks(id: string) {
 }
 
 /** The run without its result: what lists show. */
-export function runSummary(run: Run): RunView {
+export function runSummary(run: RunForView): RunView {
   const total = run.windowsTotal;
   return {
     id: run.id,
@@ -41,7 +44,7 @@ export function runSummary(run: Run): RunView {
 }
 
 /** The run with, once it has one, the result of SPEC.md §3 at the top level. */
-export function runDetail(run: Run): RunView {
+export function runDetail(run: RunForView): RunView {
   const result = run.result as RunResult | null;
   return {
     ...runSummary(run),

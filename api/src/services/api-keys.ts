@@ -8,6 +8,7 @@ import { SCOPES, type Scope } from '../lib/roles-and-scopes';
 import { safeEqual, sha256Hex } from '../lib/secret-tokens';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
+import { credentialCacheFor, forgetCredentialChange } from './credential-cache';
 
 // `gw_<12 hex: prefix, stored and shown>_<43 base64url: secret>`; the whole key is hashed.
 const KEY_FORMAT = /^gw_([0-9a-f]{12})_([A-Za-z0-9_-]{43})$/;
@@ -62,17 +63,24 @@ export async function createApiKey(
 export async function verifyApiKey(ctx: AppContext, raw: string): Promise<{ ok: true; apiKey: ApiKey } | { ok: false; reason: string }> {
   const parsed = parseApiKey(raw);
   if (!parsed) return { ok: false, reason: 'The API key is not in the Gridwright format (gw_…).' };
-  const apiKey = await ctx.db
-    .getRepository(ApiKey)
-    .createQueryBuilder('k')
-    .addSelect('k.secretHash')
-    .where('k.prefix = :prefix', { prefix: parsed.prefix })
-    .getOne();
-  if (!apiKey || !safeEqual(apiKey.secretHash, sha256Hex(raw))) return { ok: false, reason: 'The API key is not known.' };
+  const hash = sha256Hex(raw);
+  const cache = credentialCacheFor(ctx);
+  const apiKey = await cache.read(cache.apiKeys, hash, async () => {
+    const row = await ctx.db
+      .getRepository(ApiKey)
+      .createQueryBuilder('k')
+      .addSelect('k.secretHash')
+      .where('k.prefix = :prefix', { prefix: parsed.prefix })
+      .getOne();
+    return row && safeEqual(row.secretHash, hash) ? row : null;
+  });
+  if (!apiKey) return { ok: false, reason: 'The API key is not known.' };
   if (apiKey.revokedAt) return { ok: false, reason: 'The API key has been revoked.' };
   if (apiKey.expiresAt && apiKey.expiresAt.getTime() <= Date.now()) return { ok: false, reason: 'The API key has expired.' };
   if (!apiKey.lastUsedAt || Date.now() - apiKey.lastUsedAt.getTime() > LAST_USED_RESOLUTION_MS) {
-    await ctx.db.getRepository(ApiKey).update({ id: apiKey.id }, { lastUsedAt: new Date() });
+    // Set on the cached row first, so the requests behind this one do not write it again.
+    apiKey.lastUsedAt = new Date();
+    await ctx.db.getRepository(ApiKey).update({ id: apiKey.id }, { lastUsedAt: apiKey.lastUsedAt });
   }
   return { ok: true, apiKey };
 }
@@ -90,13 +98,16 @@ export async function getApiKey(ctx: AppContext, tenantId: string, id: string): 
 }
 
 export async function revokeApiKey(ctx: AppContext, tenantId: string, id: string, actor: AuditActor): Promise<ApiKey> {
-  return ctx.db.transaction(async (m) => {
+  const revoked = await ctx.db.transaction(async (m) => {
     const key = await getApiKey(ctx, tenantId, id);
     if (key.revokedAt) throw new HttpProblem({ status: 409, slug: 'already-revoked', title: 'Already revoked', detail: `API key ${id} was revoked at ${key.revokedAt.toISOString()}.` });
     await m.update(ApiKey, { id, revokedAt: IsNull() }, { revokedAt: new Date() });
     await recordAudit(m, { tenantId, action: 'key-revoked', actor, target: `${key.name} (gw_${key.prefix})`, details: { apiKeyId: id } });
     return m.findOneByOrFail(ApiKey, { id });
   });
+  // Other processes drop the key on the change notice; this one before it answers.
+  forgetCredentialChange(ctx, { table: 'api_keys', id });
+  return revoked;
 }
 
 export const apiKeyView = (k: ApiKey) => ({

@@ -8,12 +8,22 @@ import { HttpProblem, notFound, validationProblem } from '../lib/problem';
 import { isLimitName, LIMIT_NAMES, limitValueRefusal, type LimitName } from '../lib/limit-ranges';
 import { isUuid } from '../lib/uuid';
 import { recordAudit, type AuditActor } from './audit';
+import { credentialCacheFor, forgetCredentialChange, type TenantAndPlan } from './credential-cache';
 import { inviteMember } from './members';
 
 export type TenantLimits = Record<LimitName, number>;
 
 export async function findTenant(manager: EntityManager, id: string): Promise<Tenant | null> {
   return isUuid(id) ? manager.findOneBy(Tenant, { id }) : null;
+}
+
+/** The tenant and its plan, as authentication reads them on every request: from the process's cache when it may. */
+export function findTenantAndPlan(ctx: AppContext, id: string): Promise<TenantAndPlan | null> {
+  const cache = credentialCacheFor(ctx);
+  return cache.read(cache.tenants, id, async () => {
+    const tenant = await findTenant(ctx.db.manager, id);
+    return tenant && { tenant, plan: await ctx.db.manager.findOneByOrFail(Plan, { id: tenant.planId }) };
+  });
 }
 
 export async function getTenantOr404(manager: EntityManager, id: string): Promise<Tenant> {
@@ -79,6 +89,16 @@ export async function createTenantWithOwner(
   return tenant;
 }
 
+/**
+ * Runs `change` in a transaction, then drops this process's cached copy of the tenant before the
+ * caller answers: other processes drop theirs on the change notice, which arrives a moment later.
+ */
+async function afterCommitForgetTenant<T>(ctx: AppContext, id: string, change: (m: EntityManager) => Promise<T>): Promise<T> {
+  const result = await ctx.db.transaction(change);
+  forgetCredentialChange(ctx, { table: 'tenants', id });
+  return result;
+}
+
 export interface TenantChanges {
   name?: string;
   planId?: string;
@@ -114,7 +134,7 @@ function nextOverrides(current: LimitOverrides, changes: unknown): LimitOverride
 }
 
 export async function updateTenant(ctx: AppContext, id: string, changes: TenantChanges, actor: AuditActor): Promise<Tenant> {
-  return ctx.db.transaction(async (m) => {
+  return afterCommitForgetTenant(ctx, id, async (m) => {
     const tenant = await getTenantOr404(m, id);
     await m.query('SELECT 1 FROM tenants WHERE id = $1 FOR UPDATE', [id]);
     if (changes.name !== undefined && changes.name !== tenant.name) {
@@ -136,7 +156,7 @@ export async function updateTenant(ctx: AppContext, id: string, changes: TenantC
 }
 
 export async function setTenantSuspended(ctx: AppContext, id: string, suspend: boolean, reason: string | null, actor: AuditActor): Promise<Tenant> {
-  return ctx.db.transaction(async (m) => {
+  return afterCommitForgetTenant(ctx, id, async (m) => {
     const tenant = await getTenantOr404(m, id);
     if (suspend === (tenant.suspendedAt !== null)) return tenant;
     tenant.suspendedAt = suspend ? new Date() : null;

@@ -1,6 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ApiKey } from '../../../api/src/db/entities/api-key';
+import { eventually } from '../../support/eventually';
 import { createTenantWithKey, createUserSession } from '../../support/tenants';
 import { startTestApp, type TestApp } from '../../support/test-app';
 
@@ -46,8 +47,13 @@ describe('API keys', () => {
     const scope = await request(t.app).get('/v1/webhook-endpoints').set('Authorization', `Bearer ${key}`).expect(403);
     expect(scope.body.detail).toMatch(/webhooks:manage/);
 
+    // Changed beside the app, as another process would: the change notice reaches the app's cache.
     await t.ctx.db.getRepository(ApiKey).update({ id: created.body.apiKey.id }, { expiresAt: new Date(Date.now() - 1000) });
-    const expired = await request(t.app).get('/v1/usage').set('Authorization', `Bearer ${key}`).expect(401);
+    const expired = await eventually('the expired key to be refused', async () => {
+      const res = await request(t.app).get('/v1/usage').set('Authorization', `Bearer ${key}`);
+      return res.status === 200 ? undefined : res;
+    });
+    expect(expired.status).toBe(401);
     expect(expired.body.detail).toMatch(/expired/);
 
     const other = await asOwner(request(t.app).post('/v1/api-keys')).send({ name: 'to revoke', scopes: ['runs:read'] }).expect(201);

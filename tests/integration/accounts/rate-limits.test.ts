@@ -40,3 +40,36 @@ describe('request rate limits', () => {
     expect(refused?.body.policies).toEqual(['tenant']);
   });
 });
+
+describe('request rate limits across API processes', () => {
+  let a: TestApp;
+  let b: TestApp;
+  beforeAll(async () => {
+    a = await startTestApp({ RATE_LIMIT_WINDOW_SECONDS: '600' });
+    b = await startTestApp({ RATE_LIMIT_WINDOW_SECONDS: '600', DATABASE_URL: a.databaseUrl });
+  });
+  afterAll(async () => {
+    await b?.close();
+    await a?.close();
+  });
+
+  it('admits at most the quota across two processes, and no fewer than the quota less one batch', async () => {
+    const { tenantId, apiKey } = await createTenantWithKey(a.ctx);
+    // 0.1 request/s over a 600 s window: 60 per key; each process takes 60 / 20 = 3 points at a time,
+    // so with two processes at most 3 sit unused in the other one when a request is refused.
+    await updateTenant(a.ctx, tenantId, { limitOverrides: { requestsPerSecond: 0.1 } }, {});
+    const get = (t: TestApp) => request(t.app).get('/v1/tenant').set('Authorization', `Bearer ${apiKey}`);
+    const statuses: number[] = [];
+    // Rounds of concurrent requests to both processes, as a load balancer would spread them.
+    for (let round = 0; round < 10; round++) {
+      const answers = await Promise.all(Array.from({ length: 10 }, (_, i) => get(i % 2 ? a : b)));
+      statuses.push(...answers.map((r) => r.status));
+    }
+    const admitted = statuses.filter((s) => s === 200).length;
+    expect(statuses.filter((s) => s !== 200 && s !== 429)).toEqual([]);
+    expect(admitted).toBeLessThanOrEqual(60);
+    expect(admitted).toBeGreaterThanOrEqual(60 - 3);
+    const [{ points }] = await a.ctx.db.query(`SELECT points FROM rate_limits WHERE key LIKE 'rate-credential:60:600:key:%'`);
+    expect(points).toBe(60);
+  });
+});

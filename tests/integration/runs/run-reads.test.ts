@@ -1,0 +1,58 @@
+// GET /v1/runs/{id} reads its row with a prepared statement and keeps the JSON of a finished run
+// per process. Each state's answer must equal the view of the whole row read through the ORM,
+// a run that is still moving must show every move, and a kept view must stay its tenant's.
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { RunResult } from '@gridwright/shared/run-result';
+import { getRun } from '../../../api/src/runs/reading';
+import { claimRun, finishRun, recordProgress } from '../../../api/src/runs/transitions';
+import { runDetail } from '../../../api/src/runs/view';
+import { createTenantWithKey } from '../../support/tenants';
+import { startTestApp, type TestApp } from '../../support/test-app';
+import { bearer, FAST_QUEUE_ENV, smallSpec } from './run-helpers';
+
+describe('reading a run', () => {
+  let t: TestApp;
+  let key: string;
+  let tenantId: string;
+  beforeAll(async () => {
+    t = await startTestApp(FAST_QUEUE_ENV);
+    ({ apiKey: key, tenantId } = await createTenantWithKey(t.ctx));
+  });
+  afterAll(async () => t.close());
+
+  /** The answer, checked against the view of the row as the ORM reads it. */
+  async function read(id: string) {
+    const res = await request(t.app).get(`/v1/runs/${id}`).set(bearer(key)).expect(200);
+    expect(res.headers['content-type']).toBe('application/json; charset=utf-8');
+    expect(res.body).toEqual(JSON.parse(JSON.stringify(runDetail(await getRun(t.ctx, tenantId, id)))));
+    return res.body;
+  }
+
+  it('shows every move of a running run, then the finished run with its result, the same on every read', async () => {
+    const id: string = (await request(t.app).post('/v1/runs').set(bearer(key)).send(smallSpec({ name: 'read back' })).expect(202)).body.id;
+    expect((await read(id)).status).toBe('queued');
+    const [{ job_id: jobId }] = await t.ctx.db.query('SELECT job_id FROM runs WHERE id = $1', [id]);
+    const claimed = (await claimRun(t.ctx.db, id, jobId, 'test-worker'))!;
+    expect((await read(id)).status).toBe('running');
+    await recordProgress(t.ctx.db, claimed, { windowsDone: 1, windowsTotal: 4 });
+    expect((await read(id)).progress).toEqual({ windowsDone: 1, windowsTotal: 4, percent: 25 });
+
+    const result = {
+      status: 'succeeded',
+      outcome: 'optimal',
+      objective: { value: 12.5, bound: 12.5, gap: 0 },
+      kpis: null,
+      schedule: null,
+      model: { binaries: 3 } as unknown as RunResult['model'],
+      warnings: [],
+    } as unknown as Parameters<typeof finishRun>[2];
+    await finishRun(t.ctx.db, claimed, result, { log: 'log\n', solverSeconds: 0.5, progress: { windowsDone: 4, windowsTotal: 4 } });
+    const first = await read(id);
+    expect(first).toMatchObject({ status: 'succeeded', outcome: 'optimal', objective: { value: 12.5 }, model: { binaries: 3 }, progress: { percent: 100 } });
+    expect(await read(id)).toEqual(first);
+
+    const other = await createTenantWithKey(t.ctx);
+    await request(t.app).get(`/v1/runs/${id}`).set(bearer(other.apiKey)).expect(404);
+  });
+});
