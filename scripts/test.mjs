@@ -3,12 +3,15 @@
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { buildConsole, ensureChromium, ensureNodeModules, ensureReferenceSolvers, log, root, run } from './lib/setup.mjs';
+import { ensureCliBundle } from './lib/cli-bundle.mjs';
 import { ensurePostgresInstalled } from './lib/postgres.mjs';
 
 ensureNodeModules();
 ensurePostgresInstalled(log);
 process.env.CHROMIUM_PATH = ensureChromium();
 ensureReferenceSolvers();
+// Built before the tests, so the CLI tests that run it in parallel do not each build it.
+await ensureCliBundle();
 
 const steps = [
   ['lint', 'npx', ['eslint', '.', '--max-warnings=0']],

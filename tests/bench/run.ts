@@ -6,8 +6,13 @@
  * Sections: each formulation reduction on vs off; monolithic vs rolling horizon and a rolling
  * 15-minute year; HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
  * solver worker over many consecutive small solves; how fast one worker process drains the run
- * queue against the bound its solves set (`queue-throughput.ts`); and API reads against a bare
- * Express route (`api-reads.ts`), both on a throwaway PostgreSQL.
+ * queue against the bound its solves set (`queue-throughput.ts`); API reads against a bare
+ * Express route (`api-reads.ts`), both on a throwaway PostgreSQL; the warm engine against Debian's
+ * CBC on day-ahead sites, the demo sites and the 10-unit system (`engine-vs-cbc.ts`); and the CLI's
+ * fixed cost (`cli-startup.ts`).
+ *
+ * `--only=<section>,…` runs just those sections (reductions, rolling, solvers, memory, queue,
+ * api-reads, day-ahead, demo-sites, cli) and only prints.
  */
 import { execFileSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
@@ -21,10 +26,14 @@ import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { solvePlain } from '../reference/support/plain-formulation';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/support/specs';
 import { apiReadsSection } from './api-reads';
+import { cliSection } from './cli-startup';
+import { dayAheadSection, demoSitesSection } from './engine-vs-cbc';
 import { queueThroughputSection } from './queue-throughput';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
 
 const quick = process.argv.includes('--quick');
+const only = process.argv.find((a) => a.startsWith('--only='))?.slice('--only='.length).split(',');
+const wanted = (section: string) => !only || only.includes(section);
 
 interface Row {
   section: string;
@@ -260,6 +269,24 @@ async function apiReads(): Promise<void> {
   summary.push(...result.summary);
 }
 
+async function engineVsCbc(): Promise<void> {
+  const dayAhead = await dayAheadSection({ quick, log, solver });
+  for (const row of dayAhead.rows) rows.push({ section: 'Day-ahead: warm engine vs Debian CBC 2.10 on the plain formulation', ...row });
+  summary.push(...dayAhead.summary);
+}
+
+async function demoSites(): Promise<void> {
+  const demo = await demoSitesSection({ quick, log, solver });
+  for (const row of demo.rows) rows.push({ section: 'Demo sites and 10-unit system: engine vs Debian CBC 2.10', ...row });
+  summary.push(...demo.summary);
+}
+
+function cli(): void {
+  const result = cliSection({ quick, log });
+  for (const row of result.rows) rows.push({ section: 'CLI fixed cost: one-step spec, whole process', ...row });
+  summary.push(...result.summary);
+}
+
 function machine(): string[] {
   const cpu = /model name\s*:\s*(.+)/.exec(readFileSync('/proc/cpuinfo', 'utf8'))?.[1] ?? os.cpus()[0]?.model ?? 'unknown';
   const nproc = execFileSync('nproc', { encoding: 'utf8' }).trim();
@@ -288,12 +315,15 @@ async function main(): Promise<void> {
   await solveSite(smallSite(6), { solver });
   for (let i = 0; i < (quick ? 1 : 3); i++) await solveSite(monolithic(solarWeekSite(), ALL_REDUCTIONS_ON, 1e-4), { solver });
   await solveSite(monolithic(cutSteps(gridTiedSite(2, 15), 144), ALL_REDUCTIONS_OFF, 1e-3), { solver });
-  await reductionsSection();
-  await rollingSection();
-  await solverSection();
-  await memorySection();
-  await queueSection();
-  await apiReads();
+  if (wanted('reductions')) await reductionsSection();
+  if (wanted('rolling')) await rollingSection();
+  if (wanted('solvers')) await solverSection();
+  if (wanted('memory')) await memorySection();
+  if (wanted('queue')) await queueSection();
+  if (wanted('api-reads')) await apiReads();
+  if (wanted('day-ahead')) await engineVsCbc();
+  if (wanted('demo-sites')) await demoSites();
+  if (wanted('cli')) cli();
   const seconds = (performance.now() - started) / 1000;
   const md = [
     '# Gridwright benchmark results',
@@ -318,8 +348,8 @@ async function main(): Promise<void> {
     '',
   ].join('\n');
   process.stdout.write(`${table()}\n\n${summary.join('\n')}\n`);
-  // A quick run is a sanity check: it prints, but never replaces the recorded full results.
-  if (!quick) writeFileSync(path.join(import.meta.dirname, 'RESULTS.md'), md);
+  // A quick or partial run is a check: it prints, but never replaces the recorded full results.
+  if (!quick && !only) writeFileSync(path.join(import.meta.dirname, 'RESULTS.md'), md);
   log(`bench finished in ${seconds.toFixed(0)} s`);
   process.exit(0);
 }

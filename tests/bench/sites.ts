@@ -6,7 +6,7 @@ import type { ResolvedSiteSpec, SiteSpec } from '@gridwright/shared/site-spec';
 import { resolveSpec } from '../reference/support/specs';
 
 /** Park–Miller style LCG: deterministic noise without a dependency. */
-function lcg(seed: number): () => number {
+export function lcg(seed: number): () => number {
   let s = seed % 2147483647;
   return () => {
     s = (s * 48271) % 2147483647;
@@ -14,13 +14,13 @@ function lcg(seed: number): () => number {
   };
 }
 
-const round1 = (x: number) => Math.round(x * 10) / 10;
+export const round1 = (x: number) => Math.round(x * 10) / 10;
 
 /**
  * Solar output in kW for `steps` steps from midnight: a sine between 05:30 and 21:00 (a June
  * day), times a cloud factor that changes every hour.
  */
-function solar(steps: number, stepMinutes: number, peakKw: number, seed: number): number[] {
+export function solar(steps: number, stepMinutes: number, peakKw: number, seed: number): number[] {
   const rnd = lcg(seed);
   const perHour = 60 / stepMinutes;
   const out: number[] = [];

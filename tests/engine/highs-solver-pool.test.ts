@@ -38,15 +38,22 @@ function dispatchLp(dieselIsBinary = false): ModelArrays {
 }
 
 describe('HiGHS solver pool', () => {
-  it('terminates the worker on abort, rejects with SolveAbortedError, and keeps serving', async () => {
-    const big = resolve(gridTiedSolarSite({ days: 30, stepMinutes: 60, mode: 'monolithic' }));
-    const controller = new AbortController();
-    const pending = solveSite(big, { solver: pool, signal: controller.signal });
-    setTimeout(() => controller.abort(), 300);
-    await expect(pending).rejects.toBeInstanceOf(SolveAbortedError);
-    // Hand check: 1 + 2 + 2 kWh at value 1.
-    const r = await solveSite(small(), { solver: pool });
-    expect(r.objective.value).toBeCloseTo(5, 9);
+  it('interrupts the solve on abort, rejects with SolveAbortedError, and keeps serving on the same thread', async () => {
+    const own = new HighsSolverPool({ size: 1 });
+    try {
+      const big = resolve(gridTiedSolarSite({ days: 30, stepMinutes: 60, mode: 'monolithic' }));
+      const controller = new AbortController();
+      const pending = solveSite(big, { solver: own, signal: controller.signal });
+      setTimeout(() => controller.abort(), 300);
+      await expect(pending).rejects.toBeInstanceOf(SolveAbortedError);
+      // Hand check: 1 + 2 + 2 kWh at value 1.
+      const r = await solveSite(small(), { solver: own });
+      expect(r.objective.value).toBeCloseTo(5, 9);
+      // HiGHS stopped at its interrupt check: the thread was not replaced.
+      expect(own.threadsStarted).toBe(1);
+    } finally {
+      await own.close();
+    }
   });
 
   it('recycles workers after their quota of solves without losing results', async () => {

@@ -1,14 +1,15 @@
 import { spawnSync } from 'node:child_process';
+import { statSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runResultSchema } from '@gridwright/shared/run-result';
 
 const root = path.resolve(import.meta.dirname, '../..');
-const tsx = path.join(root, 'node_modules/.bin/tsx');
 const reference = (file: string) => `/work/shared/reference-cases/${file}`;
 
+/** As `npm run solve` runs it: the bundled CLI, rebuilt from the sources when one is newer. */
 function solve(args: string[], input?: string) {
-  const r = spawnSync(tsx, ['api/src/cli/solve.ts', ...args], { cwd: root, input, encoding: 'utf8', timeout: 60_000 });
+  const r = spawnSync(process.execPath, ['scripts/solve.mjs', ...args], { cwd: root, input, encoding: 'utf8', timeout: 60_000 });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -21,6 +22,15 @@ describe('solve CLI', () => {
     expect(result.objective.value).toBeCloseTo(780, 6);
     // The result is what SPEC.md §3 and the schema openapi.yaml is generated from describe.
     expect(runResultSchema.strict().safeParse(result).error).toBeUndefined();
+  });
+
+  it('keeps V8\'s compiled code of the bundle and answers the same from it', () => {
+    const first = solve([reference('sparse-set-gap.json')]);
+    // Written by the first run of a fresh bundle (scripts/lib/cli-bundle.mjs), read by later ones.
+    expect(statSync(path.join(root, 'dist/cli/solve.code-cache')).size).toBeGreaterThan(0);
+    const second = solve([reference('sparse-set-gap.json')]);
+    expect(second.code).toBe(0);
+    expect(JSON.parse(second.stdout).objective).toEqual(JSON.parse(first.stdout).objective);
   });
 
   it('reads stdin, honours --mode and --no-reductions', () => {

@@ -96,12 +96,16 @@ async function main(solver: HighsSolverPool): Promise<void> {
   }
 }
 
+// No top-level await: the bundled CLI is a CommonJS script (scripts/lib/cli-bundle.mjs).
 const solver = new HighsSolverPool({ size: defaultSolverThreads() });
-try {
-  await main(solver);
-  await solver.close();
-  process.exitCode = 0;
-} catch (err) {
-  process.stderr.write(`solve failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
-  process.exit(1);
-}
+main(solver)
+  .then(() => solver.close())
+  .then(
+    () => {
+      process.exitCode = 0;
+    },
+    (err: unknown) => {
+      process.stderr.write(`solve failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`);
+      process.exit(1);
+    },
+  );

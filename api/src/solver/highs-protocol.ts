@@ -1,6 +1,14 @@
 import type { ModelArrays } from '../engine/model-arrays';
 import type { SolveReply } from '../engine/solver-port';
 
+/** What a HiGHS worker thread starts with. */
+export interface HighsWorkerData {
+  /** HiGHS's WebAssembly, compiled once by the pool (a WebAssembly.Module). */
+  wasmModule: object;
+  /** One Int32: the pool sets it to 1 to stop the solve in progress, and back to 0 before the next. */
+  interruptFlag: SharedArrayBuffer;
+}
+
 /** Messages between the HiGHS pool (main thread) and a HiGHS worker thread. */
 export interface HighsSolveMessage {
   type: 'solve';

@@ -3,7 +3,7 @@ import { MIN_SOLVE_SECONDS, solverOverrunSeconds } from '../engine/deadline';
 import type { ModelArrays } from '../engine/model-arrays';
 import { SolveAbortedError, type SolveReply, type SolveRequest, type SolverIdentity, type SolverPort } from '../engine/solver-port';
 import { compileHighs, type CompiledHighs } from './compile-highs';
-import type { HighsSolveMessage, HighsWorkerMessage } from './highs-protocol';
+import type { HighsSolveMessage, HighsWorkerData, HighsWorkerMessage } from './highs-protocol';
 
 export class SolverCrashedError extends Error {
   constructor(detail: string) {
@@ -21,10 +21,19 @@ export interface HighsSolverPoolOptions {
 
 interface Slot {
   worker: Worker;
+  /** Shared with the thread: 1 asks HiGHS to stop at its next check (highs-worker-main.ts). */
+  interrupt: Int32Array;
   solves: number;
   busy: boolean;
   dead: boolean;
 }
+
+/**
+ * A thread asked to stop (a cancel, or a solve past its kill time) normally answers within
+ * milliseconds, from HiGHS's next interrupt check, and stays warm for the next solve; one that
+ * has not answered after this long is terminated.
+ */
+const INTERRUPT_GRACE_MS = 1_000;
 
 interface Waiting {
   run: (slot: Slot) => void;
@@ -34,7 +43,9 @@ const WORKER_URL = new URL('./highs-worker.mjs', import.meta.url);
 
 /**
  * HiGHS in worker threads, as the engine's solver port: a time limit, a cancel or a
- * WebAssembly crash ends a worker, never the process. Solves queue when every worker is busy.
+ * WebAssembly crash ends a solve, never the process. A cancelled solve is interrupted through a
+ * flag the thread shares, so the thread stays warm; only a thread that does not stop, or that
+ * crashed, is terminated. Solves queue when every worker is busy.
  */
 export class HighsSolverPool implements SolverPort {
   private readonly size: number;
@@ -42,6 +53,7 @@ export class HighsSolverPool implements SolverPort {
   private readonly slots: Slot[] = [];
   private readonly waiting: Waiting[] = [];
   private nextId = 1;
+  private started = 0;
   private solverVersion: string | null = null;
   private versionWaiters: ((v: string) => void)[] = [];
   private closed = false;
@@ -55,6 +67,11 @@ export class HighsSolverPool implements SolverPort {
 
   get concurrency(): number {
     return this.size;
+  }
+
+  /** Threads started so far: one per slot, plus one for each thread retired, terminated or crashed. */
+  get threadsStarted(): number {
+    return this.started;
   }
 
   /** HiGHS and the version string of the loaded WebAssembly build. */
@@ -108,8 +125,11 @@ export class HighsSolverPool implements SolverPort {
   }
 
   private spawn(): Slot {
-    const worker = new Worker(WORKER_URL, { workerData: { wasmModule: this.wasmModule } });
-    const slot: Slot = { worker, solves: 0, busy: false, dead: false };
+    const interruptFlag = new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT);
+    const workerData: HighsWorkerData = { wasmModule: this.wasmModule!, interruptFlag };
+    const worker = new Worker(WORKER_URL, { workerData });
+    this.started++;
+    const slot: Slot = { worker, interrupt: new Int32Array(interruptFlag), solves: 0, busy: false, dead: false };
     worker.unref();
     worker.on('message', (msg: HighsWorkerMessage) => {
       if (msg.type !== 'ready') return;
@@ -150,6 +170,7 @@ export class HighsSolverPool implements SolverPort {
     slot.busy = true;
     slot.solves++;
     slot.worker.ref();
+    Atomics.store(slot.interrupt, 0, 0);
     const id = this.nextId++;
     const { worker } = slot;
     const dispatched = performance.now();
@@ -159,50 +180,75 @@ export class HighsSolverPool implements SolverPort {
     const killAfterSeconds = timeLimitSeconds + solverOverrunSeconds(timeLimitSeconds);
     return new Promise<SolveReply>((resolve, reject) => {
       let incumbent: { colValue: Float64Array; objective: number } | null = null;
-      let settled = false;
-      const finish = (retire: boolean, outcome: () => void) => {
-        if (settled) return;
-        settled = true;
+      let answered = false;
+      let freed = false;
+      let grace: ReturnType<typeof setTimeout> | undefined;
+      // The caller's answer and the thread's release are separate: an interrupted thread is
+      // released when it has stopped, after its caller was answered.
+      const answer = (outcome: () => void) => {
+        if (answered) return;
+        answered = true;
+        request.signal?.removeEventListener('abort', onAbort);
+        outcome();
+      };
+      const free = (retire: boolean) => {
+        if (freed) return;
+        freed = true;
         clearTimeout(timer);
+        clearTimeout(grace);
         worker.off('message', onMessage);
         worker.off('error', onError);
         worker.off('exit', onExit);
-        request.signal?.removeEventListener('abort', onAbort);
         this.release(slot, retire);
-        outcome();
+      };
+      const stop = () => {
+        Atomics.store(slot.interrupt, 0, 1);
+        grace = setTimeout(() => free(true), INTERRUPT_GRACE_MS);
       };
       const onMessage = (msg: HighsWorkerMessage) => {
         if (msg.type === 'ready' || msg.id !== id) return;
         if (msg.type === 'log') request.onLog?.(msg.line);
         else if (msg.type === 'incumbent') incumbent = { colValue: msg.colValue, objective: msg.objective };
-        else if (msg.type === 'error') finish(true, () => reject(new SolverCrashedError(msg.message)));
-        else {
+        else if (msg.type === 'error') {
+          free(true);
+          answer(() => reject(new SolverCrashedError(msg.message)));
+        } else {
+          free(false);
           const { type: _type, id: _id, ...result } = msg;
-          finish(false, () => resolve({ ...result, killedAtDeadline: false, workerSeconds: elapsed() }));
+          answer(() => resolve({ ...result, killedAtDeadline: false, workerSeconds: elapsed() }));
         }
       };
-      const onError = (err: Error) => finish(true, () => reject(new SolverCrashedError(err.message)));
-      const onExit = (code: number) => finish(true, () => reject(new SolverCrashedError(`exit code ${code}`)));
-      const onAbort = () => finish(true, () => reject(new SolveAbortedError()));
-      // HiGHS's time_limit is soft: past it by the allowed overrun, the thread is terminated.
-      const timer = setTimeout(
-        () =>
-          finish(true, () =>
-            resolve({
-              status: 'time-limit',
-              solverStatus: `HiGHS terminated ${killAfterSeconds.toFixed(1)} s after it took the model`,
-              colValue: incumbent?.colValue ?? null,
-              objective: incumbent?.objective ?? null,
-              dualBound: null,
-              mipGap: null,
-              rowDual: null,
-              iis: null,
-              killedAtDeadline: true,
-              workerSeconds: elapsed(),
-            }),
-          ),
-        killAfterSeconds * 1000,
-      );
+      const onError = (err: Error) => {
+        free(true);
+        answer(() => reject(new SolverCrashedError(err.message)));
+      };
+      const onExit = (code: number) => {
+        free(true);
+        answer(() => reject(new SolverCrashedError(`exit code ${code}`)));
+      };
+      const onAbort = () => {
+        answer(() => reject(new SolveAbortedError()));
+        stop();
+      };
+      // HiGHS's time_limit is soft: past it by the allowed overrun, the caller gets the last
+      // incumbent and the thread is stopped.
+      const timer = setTimeout(() => {
+        answer(() =>
+          resolve({
+            status: 'time-limit',
+            solverStatus: `HiGHS stopped ${killAfterSeconds.toFixed(1)} s after it took the model`,
+            colValue: incumbent?.colValue ?? null,
+            objective: incumbent?.objective ?? null,
+            dualBound: null,
+            mipGap: null,
+            rowDual: null,
+            iis: null,
+            killedAtDeadline: true,
+            workerSeconds: elapsed(),
+          }),
+        );
+        stop();
+      }, killAfterSeconds * 1000);
       worker.on('message', onMessage);
       worker.on('error', onError);
       worker.on('exit', onExit);

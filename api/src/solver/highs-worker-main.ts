@@ -1,13 +1,18 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import highsImport from 'highs';
 import type { SolveStatus } from '../engine/solver-port';
-import type { HighsResult, HighsSolveMessage, HighsWorkerMessage } from './highs-protocol';
+import { instantiateCompiled } from './compile-highs';
+import { highsOptions } from './highs-options';
+import type { HighsResult, HighsSolveMessage, HighsWorkerData, HighsWorkerMessage } from './highs-protocol';
 
 const loadHighs = ((highsImport as any).default ?? highsImport) as typeof highsImport;
-// The pool compiles HiGHS once and hands every worker the same module.
-const highs = await loadHighs({ wasmModule: (workerData as { wasmModule?: any } | null)?.wasmModule });
+const { wasmModule, interruptFlag } = workerData as HighsWorkerData;
+// The pool compiles HiGHS once and hands every thread the module.
+const highs = await loadHighs(instantiateCompiled(wasmModule) as Parameters<typeof loadHighs>[0]);
 const port = parentPort!;
 const post = (message: HighsWorkerMessage, transfer: ArrayBuffer[] = []) => port.postMessage(message, transfer);
+/** Set to 1 by the pool to stop the solve in progress (a cancel, or a race another solver won). */
+const interrupt = new Int32Array(interruptFlag);
 
 /** HiGHS's `primal_solution_status` / `dual_solution_status` for a feasible point. */
 const FEASIBLE_POINT = 2;
@@ -31,8 +36,14 @@ function infoNumber(model: { info: { get(name: string): number | bigint } }, nam
   }
 }
 
+function stopWhenInterrupted(event: { interrupt(): void }): undefined {
+  if (Atomics.load(interrupt, 0) !== 0) event.interrupt();
+  return undefined;
+}
+
 function solve(req: HighsSolveMessage): HighsResult {
   const m = req.model;
+  const isMip = m.integrality.some((v) => v !== 0);
   const model = highs.createModel({
     numCols: m.numCols,
     numRows: m.numRows,
@@ -46,38 +57,23 @@ function solve(req: HighsSolveMessage): HighsResult {
     integrality: m.integrality,
   });
   try {
-    model.options.set({
-      time_limit: req.timeLimitSeconds,
-      mip_rel_gap: req.mipGap,
-      // Each log line is a message to the main thread; a caller without a log sink gets none.
-      output_flag: req.wantLog,
-      log_to_console: false,
-      // Measured on the demo sites and rolling windows: on these small unit-commitment MIPs the
-      // feasibility-jump heuristic took about half of the solve time without finding better incumbents.
-      mip_heuristic_run_feasibility_jump: false,
-      // Measured on rolling windows of grid-tied sites with a battery (60 windows: 23.6 s → 16.5 s)
-      // and on 20-unit windows (174 s → 89 s): restarts after the root rebuilt the cut loop the
-      // hard windows had just finished, and the root reduced-cost heuristic found nothing the cut
-      // loop did not. The monolithic demo and benchmark sites solved as fast or faster.
-      mip_allow_restart: false,
-      mip_heuristic_run_root_reduced_cost: false,
-      ...(req.mipAbsGap !== undefined ? { mip_abs_gap: req.mipAbsGap } : {}),
-    });
+    model.options.set(highsOptions(isMip, req));
     const run = model.run({
       0: (event) => {
         post({ type: 'log', id: req.id, line: event.message.replace(/\n$/, '') });
         return undefined;
       },
+      1: stopWhenInterrupted,
       4: (event) => {
         const x = event.data.mip_solution;
         if (x) post({ type: 'incumbent', id: req.id, colValue: x, objective: event.data.objective_function_value ?? NaN }, [x.buffer as ArrayBuffer]);
         return undefined;
       },
+      6: stopWhenInterrupted,
     });
     const status = statusOf(run.modelStatus);
     const empty = run.modelStatus === highs.constants.modelStatus.empty;
     const hasPrimal = empty || infoNumber(model, 'primal_solution_status') === FEASIBLE_POINT;
-    const isMip = m.integrality.some((v) => v !== 0);
     const solution = hasPrimal && (status === 'optimal' || status === 'time-limit') && m.numCols > 0 ? model.getSolution() : null;
     const colValue = hasPrimal && (status === 'optimal' || status === 'time-limit') ? (solution?.colValue ?? new Float64Array(0)) : null;
     const hasDuals = req.wantDuals && !isMip && status === 'optimal' && (empty || infoNumber(model, 'dual_solution_status') === FEASIBLE_POINT);
@@ -99,8 +95,8 @@ function solve(req: HighsSolveMessage): HighsResult {
       solverStatus: `HiGHS model status ${run.modelStatus}`,
       colValue,
       objective: colValue ? model.getObjectiveValue() : null,
-      dualBound: isMip ? infoNumber(model, 'mip_dual_bound') : colValue ? model.getObjectiveValue() : null,
-      mipGap: isMip ? infoNumber(model, 'mip_gap') : colValue ? 0 : null,
+      dualBound: isMip ? infoNumber(model, 'mip_dual_bound') : colValue && status === 'optimal' ? model.getObjectiveValue() : null,
+      mipGap: isMip ? infoNumber(model, 'mip_gap') : colValue && status === 'optimal' ? 0 : null,
       rowDual,
       iis,
     };

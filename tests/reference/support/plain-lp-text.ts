@@ -68,6 +68,8 @@ export interface LpTextAnswer {
   violations: string[];
   /** The objective recomputed from the point. */
   recomputedObjective: number;
+  /** Wall time from starting the solver to its answer read back (both runs when cbc ran twice). */
+  seconds: number;
 }
 
 /** Column names in the order GLPK's CPLEX-LP reader creates them: first appearance in the text. */
@@ -130,6 +132,8 @@ export interface LpTextRun {
   name: string;
   /** cbc's `threads` (default 1). */
   threads?: number;
+  /** cbc's `ratioGap`, the relative MIP gap it stops at (default: its own, 0). */
+  ratioGap?: number;
 }
 
 interface RawAnswer {
@@ -152,9 +156,10 @@ function runGlpsol(lpFile: string, text: string, out: string): RawAnswer {
   };
 }
 
-function runCbc(lpFile: string, out: string, threads: number): RawAnswer {
+function runCbc(lpFile: string, out: string, threads: number, ratioGap: number | undefined): RawAnswer {
+  const gap = ratioGap === undefined ? [] : ['ratioGap', String(ratioGap)];
   const run = (preprocess: string[]) =>
-    execFileSync(CBC, [lpFile, ...preprocess, 'threads', String(threads), 'solve', 'solu', out, 'quit'], { stdio: 'ignore' });
+    execFileSync(CBC, [lpFile, ...preprocess, ...gap, 'threads', String(threads), 'solve', 'solu', out, 'quit'], { stdio: 'ignore' });
   try {
     run(['preprocess', 'off']);
   } catch (error) {
@@ -177,9 +182,11 @@ export async function solveLpText(model: PlainModel, solver: 'glpsol' | 'cbc', r
   const text = await toCplexLp(model);
   const lpFile = path.join(run.dir, `${run.name}.lp`);
   writeFileSync(lpFile, text);
+  const started = performance.now();
   const { status, objective, values } = solver === 'glpsol'
     ? runGlpsol(lpFile, text, path.join(run.dir, `${run.name}.glpsol.raw`))
-    : runCbc(lpFile, path.join(run.dir, `${run.name}.cbc.sol`), run.threads ?? 1);
+    : runCbc(lpFile, path.join(run.dir, `${run.name}.cbc.sol`), run.threads ?? 1, run.ratioGap);
+  const seconds = (performance.now() - started) / 1000;
   const value = (name: string) => (name === OFFSET_COLUMN ? 1 : (values.get(name) ?? 0));
   return {
     solver,
@@ -188,5 +195,6 @@ export async function solveLpText(model: PlainModel, solver: 'glpsol' | 'cbc', r
     value,
     violations: status === 'optimal' ? await pointViolations(model, value) : [],
     recomputedObjective: recompute(model, value),
+    seconds,
   };
 }

@@ -1,0 +1,4 @@
+// `npm run solve`: the offline solve CLI (api/src/cli/solve.ts), bundled (scripts/lib/cli-bundle.mjs).
+import { runCli } from './lib/cli-bundle.mjs';
+
+await runCli();
