@@ -14,6 +14,27 @@ export interface HorizonWindow {
   isFinal: boolean;
   /** The state the window must end in: where the next parallel segment of a rolling solve starts. */
   endState?: WindowEndState;
+  /** Set on a block of the horizon bound (horizon-bound.ts): its links to the blocks around it, relaxed and priced. */
+  links?: BlockLinks;
+}
+
+/** Money per unit of state where two blocks of the horizon bound meet. */
+export interface LinkPrices {
+  socPerKwh: number[];
+  storePerUnit: number[];
+}
+
+/**
+ * A block of the horizon bound: solved as an LP, its start state free (priced at `start`) and its
+ * end state sold at `end`, each demand charge paid on its own peak at a share of the price.
+ */
+export interface BlockLinks {
+  /** Null: the horizon's first block, which starts from the spec's initial state. */
+  start: LinkPrices | null;
+  /** Null: the horizon's last block, which meets the final targets. */
+  end: LinkPrices | null;
+  /** Per demand charge, the share of its price this block pays (the shares of a charge sum to 1). */
+  peakShares: number[];
 }
 
 /** A state fixed at a window's end: each storage's SOC and store's level, each unit's last on/off values and output. */
@@ -79,6 +100,8 @@ export interface StoragePlan {
   endSocFixedKwh: number | null;
   /** Money per kWh credited for energy left above minSoc at the end of a non-final window. */
   terminalValuePerKwh: number;
+  /** A bound block's free start SOC costs this per kWh; null: the start SOC is the start state's. */
+  startPricePerKwh: number | null;
   /** 1 where the battery holds spinning reserve. */
   reserve: Uint8Array;
 }
@@ -92,6 +115,8 @@ export interface StorePlan {
   endFixed: number | null;
   /** Money per unit credited for product left at the end of a non-final window. */
   terminalValuePerUnit: number;
+  /** A bound block's free start level costs this per unit; null: the start level is the start state's. */
+  startPricePerUnit: number | null;
 }
 
 export interface DemandChargePlan {
@@ -100,6 +125,8 @@ export interface DemandChargePlan {
   /** The peak reached so far (the charge's floor here) and the most the peak can reach in the window. */
   floorKw: number;
   capKw: number;
+  /** The share of the charge's price this window pays: 1, or a bound block's share. */
+  share: number;
 }
 
 export interface GridPlan {
@@ -205,7 +232,10 @@ export function planWindow(
   const limits = storageStepLimits(spec, dh);
   // Relax-and-fix: the lookahead only values the state the kept steps leave, so its LP
   // relaxation serves, and the MIP is left with the decisions that are actually kept.
-  const integerSteps = window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
+  // A bound block is an LP relaxation: no step is integral.
+  const links = window.links;
+  const integerSteps = links ? 0 : window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
+  const freeStart = links !== undefined && links.start !== null;
 
   const sums = ratingSums(spec, limits);
 
@@ -289,7 +319,8 @@ export function planWindow(
       }
     }
     const noStart = new Uint8Array(n);
-    noStart.fill(1, 0, Math.min(n, initial.on ? u.minDownSteps : mustStayOff));
+    // A free start may have stopped the unit long before: it may start at once.
+    if (!freeStart) noStart.fill(1, 0, Math.min(n, initial.on ? u.minDownSteps : mustStayOff));
     let nextPruned = Infinity;
     for (let k = n - 1; k >= 0; k--) {
       if (nextPruned - k < u.minUpSteps) noStart[k] = 1;
@@ -357,7 +388,8 @@ export function planWindow(
       // Non-final windows credit stored energy at what it would fetch later (discharge losses
       // included), so they neither drain storage at their end nor hoard energy worth less
       // than it cost. The final window has no later, and a fixed end SOC leaves nothing to value.
-      terminalValuePerKwh: credits ? energyValue * s.dischargeEfficiency : 0,
+      terminalValuePerKwh: links ? (links.end?.socPerKwh[i] ?? 0) : credits ? energyValue * s.dischargeEfficiency : 0,
+      startPricePerKwh: links?.start ? links.start.socPerKwh[i] : null,
       reserve,
     };
   });
@@ -367,7 +399,8 @@ export function planWindow(
     scale: scales.stores[j],
     endFloor: Math.min(s.capacity, storeFloors[j][lastStep]),
     endFixed: window.endState ? window.endState.storeLevels[j] : null,
-    terminalValuePerUnit: credits ? storeValues[j] : 0,
+    terminalValuePerUnit: links ? (links.end?.storePerUnit[j] ?? 0) : credits ? storeValues[j] : 0,
+    startPricePerUnit: links?.start ? links.start.storePerUnit[j] : null,
   }));
 
   const demandCharges: DemandChargePlan[] = spec.grid.demandCharges.map((_, c) => {
@@ -378,7 +411,7 @@ export function planWindow(
       steps.push(k);
       cap = Math.max(cap, grid.importUb[k]);
     }
-    return { steps, floorKw: start.peaksKw[c], capKw: cap };
+    return { steps, floorKw: start.peaksKw[c], capKw: cap, share: links ? links.peakShares[c] : 1 };
   });
 
   const supplyOnlyCap = new Uint8Array(n);

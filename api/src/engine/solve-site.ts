@@ -14,6 +14,8 @@ import { createScheduleBuffers, toSchedule } from './schedule-buffers';
 import { scheduleKpis } from './schedule-kpis';
 import { SolveBudget } from './solve-budget';
 import { solveRolling, type HorizonSolve } from './solve-rolling';
+import { horizonBound } from './horizon-bound';
+import { relativeGap } from './solve-in-blocks';
 import { failedRecord, solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
 import { specWarnings } from './spec-warnings';
 import type { SolverIdentity, SolverPort } from './solver-port';
@@ -64,6 +66,7 @@ function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, sol
     scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])), demandPeakKw: 1 },
     buildSeconds: 0,
     solveSeconds: 0,
+    horizonBound: null,
     solver: { name: solver.name, version: solver.version },
   };
 }
@@ -215,16 +218,28 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Pro
       { code: 'objective-mismatch', message: `the schedule's objective is ${value}; recomputed independently it is ${check.objective}` },
     ]);
   }
-  // A schedule stitched from windows is feasible, never proved optimal for the whole horizon.
+  // A schedule stitched from windows is feasible, never proved optimal for the whole horizon;
+  // its bound comes from the decomposition of horizon-bound.ts, in the time the run has left.
   const whole = solved.records.length === 1 && solved.records[0].window.steps === spec.horizon.steps;
   const single = whole ? solved.records[0].result : null;
+  let bound = single ? single.bound : null;
+  let gap = single ? single.gap : null;
+  if (!whole) {
+    const proven = await horizonBound({ spec, facts: ctx.facts, schedule: buffers, solver, deadline, signal: opts.signal });
+    report.solveSeconds += proven.solveSeconds;
+    // Below the schedule's own objective the bound cannot be right: it is withheld, never shown.
+    const reason = proven.value === null ? proven.reason : proven.value < value ? `the bound came out ${proven.value}, below the schedule's objective` : null;
+    report.horizonBound = { blocks: proven.blocks, solveSeconds: proven.solveSeconds, reason };
+    if (reason === null) {
+      bound = proven.value;
+      gap = relativeGap(value, proven.value!);
+    } else {
+      warnings.push({ code: 'bound-unavailable', message: `No bound on the whole horizon: ${reason}.` });
+    }
+  }
   return {
     outcome: single?.outcome === 'optimal' ? 'optimal' : 'feasible',
-    objective: {
-      value,
-      bound: single ? single.bound : null,
-      gap: single ? single.gap : null,
-    },
+    objective: { value, bound, gap },
     kpis: scheduleKpis(spec, ctx.facts.chargeSteps, buffers, terms),
     schedule,
     model: report,
