@@ -233,6 +233,8 @@ const modelReportSchema = z
       .object({
         blocks: count.meta({ description: 'Blocks of the horizon, each solved as one LP with its links to the others relaxed and priced.' }),
         solveSeconds: z.number().meta({ description: 'Solver time summed over the blocks.' }),
+        bound: z.number().nullable().meta({ description: 'The proven bound, as in `objective.bound`.' }),
+        gap: z.number().nullable().meta({ description: 'The proven gap, as in `objective.gap`.' }),
         reason: z.string().nullable().meta({ description: 'Why `objective.bound` is null (the time limit ran out, a block not solved); null when it is known.' }),
       })
       .nullable()

@@ -4,7 +4,9 @@
  * and only prints.
  *
  * Sections: each formulation reduction on vs off; monolithic vs rolling horizon and a rolling
- * 15-minute year; HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
+ * 15-minute year; the proven bound of rolling solves (`rolling-bound.ts`); the island year with
+ * fuel deliveries (`island-year.ts`); how rolling windows value stored product
+ * (`store-valuation.ts`); HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
  * solver worker over many consecutive small solves; how fast one worker process drains the run
  * queue against the bound its solves set (`queue-throughput.ts`); and API reads against a bare
  * Express route (`api-reads.ts`), both on a throwaway PostgreSQL.
@@ -21,8 +23,11 @@ import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { solvePlain } from '../reference/support/plain-formulation';
 import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/support/specs';
 import { apiReadsSection } from './api-reads';
+import { islandYearSection } from './island-year';
 import { queueThroughputSection } from './queue-throughput';
+import { rollingBoundSection, type BenchSection } from './rolling-bound';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
+import { storeValuationSection } from './store-valuation';
 
 const quick = process.argv.includes('--quick');
 
@@ -260,6 +265,12 @@ async function apiReads(): Promise<void> {
   summary.push(...result.summary);
 }
 
+/** A section kept in its own file: its rows and summary lines, as they are. */
+function addSection(result: BenchSection): void {
+  for (const row of result.rows) rows.push({ section: result.section, ...row });
+  summary.push(...result.summary);
+}
+
 function machine(): string[] {
   const cpu = /model name\s*:\s*(.+)/.exec(readFileSync('/proc/cpuinfo', 'utf8'))?.[1] ?? os.cpus()[0]?.model ?? 'unknown';
   const nproc = execFileSync('nproc', { encoding: 'utf8' }).trim();
@@ -291,6 +302,9 @@ async function main(): Promise<void> {
   await reductionsSection();
   await rollingSection();
   await solverSection();
+  addSection(await rollingBoundSection({ solver, quick, log }));
+  addSection(await islandYearSection({ solver, quick, log }));
+  addSection(await storeValuationSection({ solver, quick, log }));
   await memorySection();
   await queueSection();
   await apiReads();

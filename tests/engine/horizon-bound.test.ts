@@ -128,7 +128,7 @@ describe('the horizon bound of a rolling solve', () => {
       2,
     );
     const passed = Deadline.after(0);
-    const r = await horizonBound({ spec, facts: siteFacts(spec), schedule: createScheduleBuffers(spec), solver, deadline: passed });
+    const r = await horizonBound({ spec, facts: siteFacts(spec), schedule: createScheduleBuffers(spec), solver, deadline: passed }, 10);
     expect(r.value).toBeNull();
     expect(r.reason).toMatch(/time limit/);
   });

@@ -28,10 +28,11 @@ export interface WindowColumns {
   peaks: Int32Array;
 }
 
-/** Row index per local step of the rows whose duals price energy and product. */
+/** Row index per local step of the rows whose duals price energy, stored energy and product. */
 export interface WindowRows {
   balance: Int32Array;
   stores: Int32Array[];
+  storage: Int32Array[];
 }
 
 export interface BigMEntry {
@@ -81,7 +82,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     reserveShortfall: filled(n),
     peaks: filled(spec.grid.demandCharges.length),
   };
-  const rows: WindowRows = { balance: filled(n), stores: spec.stores.map(() => filled(n)) };
+  const rows: WindowRows = { balance: filled(n), stores: spec.stores.map(() => filled(n)), storage: spec.storage.map(() => filled(n)) };
   const penalty = spec.siteLoad.unservedPenaltyPerKwh;
   const reservePenalty = spec.reserve?.shortfallPenaltyPerKwh ?? null;
   const widths = spec.units.map(sliceWidths);
@@ -205,7 +206,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     for (let k = 0; k < n; k++) {
       // soc_k − soc_{k−1} − Δh·ηc·c_k + Δh/ηd·d_k = 0, with soc_{−1} the window's starting SOC.
       const rhs = k === 0 && freeStart < 0 ? start.socKwh[i] / P : 0;
-      a.row(RowKind.StorageSoc, k, i, rhs, rhs);
+      rows.storage[i][k] = a.row(RowKind.StorageSoc, k, i, rhs, rhs);
       if (k === 0) a.entry(freeStart, -1);
       if (k > 0) a.entry(c.soc[k - 1], -1);
       a.entry(c.soc[k], 1);

@@ -2,7 +2,7 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { chooseScales, type Scales } from './choose-scales';
 import { demandChargeSteps } from './demand-charge-steps';
 import { storeLevelFloors } from './store-floors';
-import { islandEnergyValue, lookaheadEnergyValue, storeProductValues } from './terminal-values';
+import { islandEnergyValue, lookaheadEnergyValue, medianEnergyStoreValue, storeProductValues, type StoreValuation } from './terminal-values';
 import { TINY } from './numerics';
 import { ratingSums, storageStepLimits } from './site-ratings';
 
@@ -35,6 +35,8 @@ export interface BlockLinks {
   end: LinkPrices | null;
   /** Per demand charge, the share of its price this block pays (the shares of a charge sum to 1). */
   peakShares: number[];
+  /** Whether the block keeps its binaries (a MIP whose dual bound counts) or is an LP relaxation. */
+  integral: boolean;
 }
 
 /** A state fixed at a window's end: each storage's SOC and store's level, each unit's last on/off values and output. */
@@ -192,9 +194,11 @@ export interface SiteFacts {
   storeFloors: Float64Array[];
   /** Per store, what a unit of its product left at a non-final window's end is credited at (storeProductValues). */
   storeValues: number[];
+  /** How product left at a non-final window's end is valued ('water-value' in every run: storeValues). */
+  storeValuation: StoreValuation;
 }
 
-export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+export function siteFacts(spec: ResolvedSiteSpec, storeValuation: StoreValuation = 'water-value'): SiteFacts {
   const island = spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0;
   return {
     scales: chooseScales(spec, spec.solver.reductions.scaling),
@@ -203,6 +207,7 @@ export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
     chargeSteps: demandChargeSteps(spec),
     storeFloors: storeLevelFloors(spec),
     storeValues: storeProductValues(spec, island),
+    storeValuation,
   };
 }
 
@@ -226,15 +231,14 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const { scales, loose, island, chargeSteps, storeFloors, storeValues } = facts;
+  const { scales, loose, island, chargeSteps, storeFloors } = facts;
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
   // Relax-and-fix: the lookahead only values the state the kept steps leave, so its LP
   // relaxation serves, and the MIP is left with the decisions that are actually kept.
-  // A bound block is an LP relaxation: no step is integral.
   const links = window.links;
-  const integerSteps = links ? 0 : window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
+  const integerSteps = links ? (links.integral ? n : 0) : window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
   const freeStart = links !== undefined && links.start !== null;
 
   const sums = ratingSums(spec, limits);
@@ -399,7 +403,7 @@ export function planWindow(
     scale: scales.stores[j],
     endFloor: Math.min(s.capacity, storeFloors[j][lastStep]),
     endFixed: window.endState ? window.endState.storeLevels[j] : null,
-    terminalValuePerUnit: links ? (links.end?.storePerUnit[j] ?? 0) : credits ? storeValues[j] : 0,
+    terminalValuePerUnit: links ? (links.end?.storePerUnit[j] ?? 0) : credits ? creditedStoreValue(spec, facts, j, energyValue) : 0,
     startPricePerUnit: links?.start ? links.start.storePerUnit[j] : null,
   }));
 
@@ -418,6 +422,12 @@ export function planWindow(
   if (anySupplyOnly) for (let k = 0; k < n; k++) supplyOnlyCap[k] = grid.importUb[k] > 0 ? 1 : 0;
 
   return { spec, facts, window, start, scales, dh, units, storage, stores, demandCharges, reserveKw, supplyOnlyCap, grid, binariesBefore, integerSteps };
+}
+
+/** What a non-final window credits a unit of store `j`'s product at, by the solve's store valuation. */
+function creditedStoreValue(spec: ResolvedSiteSpec, facts: SiteFacts, j: number, energyValue: number): number {
+  if (facts.storeValuation === 'none') return 0;
+  return facts.storeValuation === 'water-value' ? facts.storeValues[j] : medianEnergyStoreValue(spec, j, energyValue);
 }
 
 /** A unit's ramp limits in kW per step, with the start and stop allowances of SPEC §5; null without any. */
