@@ -35,8 +35,8 @@ export function islandYearSite(days: number): ResolvedSiteSpec {
   for (let from = 0; from < steps; from += period) {
     let burn = 0;
     for (let t = from; t < Math.min(steps, from + period); t++) burn += (Math.max(0, load[t] - solar[t]) / perHour) * LITRES_PER_KWH;
-    // Delivered over one step, at the end of the period it is for: litres per hour.
-    inflow[Math.min(steps, from + period) - 1] = round1(DELIVERY_MARGIN * burn * perHour);
+    // Delivered over one step, at the start of the period it is for: litres per hour.
+    inflow[from] = round1(DELIVERY_MARGIN * burn * perHour);
   }
   const scaled = (x: number | undefined) => (x === undefined ? x : x * perHour);
   for (const u of demo.units) {
