@@ -17,12 +17,15 @@ import { compileOpenApiRoutePatternsOnce } from './lib/openapi-route-patterns';
 import { HttpProblem, problemType } from './lib/problem';
 import { requestLog } from './lib/request-log';
 import { STRICT_ROUTING } from './lib/strict-router';
+import { adminBillingRouter } from './routes/admin-billing';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
 import { auditRouter } from './routes/audit';
 import { authRouter } from './routes/auth';
+import { billingRouter } from './routes/billing';
 import { membersRouter } from './routes/members';
 import { outboxRouter } from './routes/outbox';
+import { paymentEventsRouter } from './routes/payment-events';
 import { tenantRouter } from './routes/tenant';
 import { usageRouter } from './routes/usage';
 import { exportProfilesRouter } from './routes/export-profiles';
@@ -109,6 +112,8 @@ export function buildApp(ctx: AppContext): Express {
     res.type('application/yaml').send(openapiText);
   });
   app.use('/docs', swaggerUi.serve, swaggerUi.setup(openapiDoc, { customSiteTitle: 'Gridwright API' }));
+  // Signed by the payment provider and read raw, before any parser: see routes/payment-events.ts.
+  app.use(paymentEventsRouter(ctx));
 
   // Another spelling of a documented path (`/V1/…`, a trailing slash) is refused before anything
   // else looks at it, so it can never meet a handler the contract did not describe.
@@ -165,6 +170,8 @@ export function buildApp(ctx: AppContext): Express {
   app.use(usageRouter(ctx));
   app.use(auditRouter(ctx));
   app.use(adminTenantsRouter(ctx));
+  app.use(billingRouter(ctx));
+  app.use(adminBillingRouter(ctx));
   app.use(outboxRouter(ctx));
   app.use(specsRouter(ctx));
   app.use(seriesRouter(ctx));

@@ -91,10 +91,20 @@ export const environmentSchema = z
     WEBHOOK_RETRY_DELAY_SECONDS: wholeNumber(0).default(30),
     WEBHOOK_DISABLE_AFTER_FAILURES: wholeNumber(1).default(20),
     SERIES_MAX_BYTES: wholeNumber(1).default(5 * 1024 * 1024),
+    BILLING_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_\w{8,}$/, 'must be a secret key of the payment provider: sk_test_…, sk_live_… or a restricted rk_… key').optional(),
+    BILLING_WEBHOOK_SECRET: z.string().regex(/^whsec_\S{8,}$/, "must be the provider's signing secret of Gridwright's event endpoint: whsec_…").optional(),
+    BILLING_API_URL: z.url({ protocol: /^https?$/, error: 'must be an http:// or https:// URL' }).optional(),
+    BILLING_GRACE_DAYS: decimalNumber({ above: 0 }).default(7),
+    BILLING_EVENT_TOLERANCE_SECONDS: wholeNumber(1).default(300),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && env.JWT_SECRET === undefined) {
       ctx.addIssue({ code: 'custom', path: ['JWT_SECRET'], message: 'must be set when NODE_ENV=production' });
+    }
+    // Half a configuration would take money without hearing back, or hear events it cannot act on.
+    if ((env.BILLING_SECRET_KEY === undefined) !== (env.BILLING_WEBHOOK_SECRET === undefined)) {
+      const missing = env.BILLING_SECRET_KEY === undefined ? 'BILLING_SECRET_KEY' : 'BILLING_WEBHOOK_SECRET';
+      ctx.addIssue({ code: 'custom', path: [missing], message: 'must be set together with the other BILLING_ key (both, or neither to leave billing off)' });
     }
   });
 
@@ -182,6 +192,12 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     webhookRetryDelaySeconds: e.WEBHOOK_RETRY_DELAY_SECONDS,
     webhookDisableAfterFailures: e.WEBHOOK_DISABLE_AFTER_FAILURES,
     seriesMaxBytes: e.SERIES_MAX_BYTES,
+    /** The payment provider: its secret key, the signing secret of its events and where its API is (null: the provider's own). Null: billing is off. */
+    billing: e.BILLING_SECRET_KEY && e.BILLING_WEBHOOK_SECRET ? { secretKey: e.BILLING_SECRET_KEY, webhookSecret: e.BILLING_WEBHOOK_SECRET, apiUrl: e.BILLING_API_URL ?? null } : null,
+    /** Days a tenant keeps its paid plan after a renewal payment fails, before it falls back to the free plan. */
+    billingGraceDays: e.BILLING_GRACE_DAYS,
+    /** Oldest signature timestamp accepted on a provider event, in seconds. */
+    billingEventToleranceSeconds: e.BILLING_EVENT_TOLERANCE_SECONDS,
   };
 }
 

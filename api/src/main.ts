@@ -18,6 +18,8 @@ const url = `http://${ctx.config.host}:${ctx.config.port}`;
 ctx.log.info({ url }, 'Gridwright is serving');
 process.stderr.write(`\n  Gridwright  ${url}\n  API docs    ${url}/docs\n  Readiness   ${url}/readyz\n\n`);
 if (ctx.mailer.localServer) process.stderr.write(`  E-mail      loopback SMTP on 127.0.0.1:${ctx.mailer.localServer.port}; messages in the console's outbox\n\n`);
+if (ctx.config.billing) process.stderr.write(`  Billing     payment provider at ${ctx.config.billing.apiUrl ?? 'its own API'}; events at ${url}/hooks/payments\n\n`);
+else process.stderr.write('  Billing     off (no BILLING_SECRET_KEY): plans are set by operators\n\n');
 if (demo) process.stderr.write(describeDemoSeed(demo, url) + '\n');
 
 let stopping = false;

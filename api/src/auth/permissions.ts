@@ -31,8 +31,10 @@ export const permissions = {
   'usage.read': { description: 'Read usage against the quota', roles: EVERYONE, keyScope: 'runs:read' },
   'audit.read': { description: "Read the tenant's audit log", roles: ['owner', 'operator'], keyScope: null },
   'tenant.read': { description: 'Read the tenant, its plan and limits; list plans', roles: EVERYONE, keyScope: 'runs:read' },
-  'plan.manage': { description: "Change the tenant's plan", roles: ['owner', 'operator'], keyScope: null },
-  'tenants.operate': { description: 'Create, rename, suspend and resume tenants; set plans and overrides', roles: ['operator'], keyScope: null },
+  'plan.manage': { description: "Change the tenant's plan (with billing on, through its subscription)", roles: ['owner', 'operator'], keyScope: null },
+  'billing.read': { description: "Read the tenant's billing: subscription, card on file (brand and last digits), invoices, the next invoice", roles: ['owner', 'operator'], keyScope: null },
+  'billing.manage': { description: 'Buy a plan, cancel or resume the subscription', roles: ['owner'], keyScope: null },
+  'tenants.operate': { description: "Create, rename, suspend and resume tenants; set plans and overrides; grant plans without payment; read a tenant's billing", roles: ['operator'], keyScope: null },
   'outbox.read': { description: 'Read every e-mail the service sent', roles: ['operator'], keyScope: null },
 } as const satisfies Record<string, Permission>;
 

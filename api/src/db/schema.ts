@@ -1,6 +1,7 @@
 // The entity classes and migrations TypeORM knows about. Listed explicitly (no globs) so that tsx,
 // Vitest and the CLIs all load the same class objects.
 import { ApiKey } from './entities/api-key';
+import { BillingAccount } from './entities/billing-account';
 import { AuditEvent } from './entities/audit-event';
 import { Invitation } from './entities/invitation';
 import { OutboxMessage } from './entities/outbox-message';
@@ -26,13 +27,14 @@ import { RunStatusCheck1780000400000 } from './migrations/1780000400000-run-stat
 import { CredentialChangeNotices1780000520000 } from './migrations/1780000520000-credential-change-notices';
 import { FairQueues1780000600000 } from './migrations/1780000600000-fair-queues';
 import { InputGuards1780000500000 } from './migrations/1780000500000-input-guards';
+import { Billing1780000760000 } from './migrations/1780000760000-billing';
 import { RatePointReservations1780000530000 } from './migrations/1780000530000-rate-point-reservations';
 
 type Constructor = new (...args: any[]) => unknown;
 
 export const entities: Constructor[] = [
   Plan, Tenant, User, Session, ApiKey, Invitation, PasswordReset, AuditEvent, OutboxMessage, RunUsage,
-  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile,
+  Run, IdempotencyKey, Series, WebhookEndpoint, WebhookDelivery, ExportProfile, BillingAccount,
 ];
 
 export const migrations: Constructor[] = [
@@ -42,4 +44,5 @@ export const migrations: Constructor[] = [
   InputGuards1780000500000,
   CredentialChangeNotices1780000520000, RatePointReservations1780000530000,
   FairQueues1780000600000,
+  Billing1780000760000,
 ];

@@ -1,9 +1,10 @@
 import type { Router } from 'express';
 import { authenticate, authorize } from '../auth/middleware';
+import { changePlan } from '../billing/plan-changes';
 import type { AppContext } from '../context';
 import { strictRouter } from '../lib/strict-router';
 import { auditActorOf } from '../services/audit';
-import { getTenantOr404, listPlans, planView, tenantView, updateTenant } from '../services/tenants';
+import { getTenantOr404, listPlans, planView, tenantView } from '../services/tenants';
 
 export function tenantRouter(ctx: AppContext): Router {
   const r = strictRouter();
@@ -18,8 +19,9 @@ export function tenantRouter(ctx: AppContext): Router {
   });
 
   r.put('/v1/tenant/plan', auth, authorize('plan.manage'), async (req, res) => {
-    const tenant = await updateTenant(ctx, req.principal!.tenantId, { planId: req.body.planId }, await auditActorOf(ctx, req.principal));
-    res.json(await tenantView(ctx.db.manager, tenant));
+    const tenantId = req.principal!.tenantId;
+    await changePlan(ctx, { tenantId, planId: req.body.planId, role: req.principal!.role }, await auditActorOf(ctx, req.principal));
+    res.json(await tenantView(ctx.db.manager, await getTenantOr404(ctx.db.manager, tenantId)));
   });
 
   return r;

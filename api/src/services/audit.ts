@@ -23,7 +23,12 @@ export type AuditAction =
   | 'tenant-suspended'
   | 'tenant-resumed'
   | 'plan-changed'
-  | 'limits-changed';
+  | 'limits-changed'
+  | 'checkout-started'
+  | 'plan-change-requested'
+  | 'subscription-resumed'
+  | 'plan-granted'
+  | 'plan-grant-ended';
 
 export interface AuditActor {
   userId?: string | null;

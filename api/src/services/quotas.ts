@@ -3,6 +3,8 @@
 // writes once when it ends.
 import type { EntityManager } from 'typeorm';
 import type { AppContext } from '../context';
+import { solverOverageBilled } from '../billing/overage';
+import { reportSolverOverage } from '../billing/metered-usage';
 import { Plan } from '../db/entities/plan';
 import { RunUsage } from '../db/entities/run-usage';
 import { HttpProblem } from '../lib/problem';
@@ -116,7 +118,8 @@ export async function assertRunAllowed(
       headers: { 'Retry-After': '5' },
     });
   }
-  assertQuotaLeft('solverSeconds', limits, used, period);
+  // A paying subscriber's solver-seconds above the allowance are billed as metered usage, not refused.
+  if (!(await solverOverageBilled(ctx.config, manager, tenantId))) assertQuotaLeft('solverSeconds', limits, used, period);
 }
 
 /**
@@ -140,7 +143,10 @@ export async function assertWebhookEndpointAllowed(ctx: AppContext, manager: Ent
 
 const THRESHOLDS = [80, 100] as const;
 
-/** Records what a finished run used (idempotent per run) and warns the owners at 80 % and 100 %, once per period each. */
+/**
+ * Records what a finished run used (idempotent per run), warns the owners at 80 % and 100 %, once per
+ * period each, and reports solver-seconds above the allowance of a paying subscriber as metered usage.
+ */
 export async function recordRunUsage(
   ctx: AppContext,
   usage: { tenantId: string; runId: string; solverSeconds: number; steps: number; units: number; endedAt: Date },
@@ -153,6 +159,10 @@ export async function recordRunUsage(
     .orIgnore()
     .execute();
   await sendQuotaWarnings(ctx, usage.tenantId, usage.endedAt);
+  const period = billingPeriod(usage.endedAt);
+  const used = await periodTotals(ctx.db.manager, usage.tenantId, period);
+  const limits = await getTenantLimits(ctx, usage.tenantId);
+  await reportSolverOverage(ctx, { tenantId: usage.tenantId, period, usedSolverSeconds: used.solverSeconds, allowanceSolverSeconds: limits.monthlySolverSeconds });
 }
 
 export async function sendQuotaWarnings(ctx: AppContext, tenantId: string, at: Date = new Date()): Promise<void> {
@@ -160,6 +170,7 @@ export async function sendQuotaWarnings(ctx: AppContext, tenantId: string, at: D
   const limits = await getTenantLimits(ctx, tenantId);
   const period = billingPeriod(at);
   const used = await periodTotals(ctx.db.manager, tenantId, period);
+  const overageBilled = await solverOverageBilled(ctx.config, ctx.db.manager, tenantId);
   for (const metric of ['runs', 'solverSeconds'] as const) {
     const quota = MONTHLY_QUOTAS[metric];
     const limit = limits[quota.limit];
@@ -181,9 +192,11 @@ export async function sendQuotaWarnings(ctx: AppContext, tenantId: string, at: D
       heading,
       paragraphs: [
         `${quota.amount(used[metric])} of ${limit} ${quota.label} used in ${period.key}.`,
-        threshold >= 100
-          ? `New runs are refused until the quota renews on ${period.end.toISOString().slice(0, 10)} or the plan changes.`
-          : `At 100 % new runs are refused until the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
+        metric === 'solverSeconds' && overageBilled
+          ? 'Solver-seconds above the allowance are billed as usage on the next invoice; the billing page shows it.'
+          : threshold >= 100
+            ? `New runs are refused until the quota renews on ${period.end.toISOString().slice(0, 10)} or the plan changes.`
+            : `At 100 % new runs are refused until the quota renews on ${period.end.toISOString().slice(0, 10)}.`,
       ],
       link: { label: 'Open usage in the console', path: '/usage' },
     });

@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { buildPointer } from '@gridwright/shared/json-pointer';
+import { assertPlanSetDirectly } from '../billing/direct-plan-guard';
 import type { AppContext } from '../context';
 import { Plan } from '../db/entities/plan';
 import { Tenant, type LimitOverrides } from '../db/entities/tenant';
@@ -143,6 +144,7 @@ export async function updateTenant(ctx: AppContext, id: string, changes: TenantC
     }
     if (changes.planId !== undefined && changes.planId !== tenant.planId) {
       await getPlanOrFail(m, changes.planId);
+      await assertPlanSetDirectly(m, id);
       await recordAudit(m, { tenantId: id, action: 'plan-changed', actor, target: tenant.slug, details: { from: tenant.planId, to: changes.planId } });
       tenant.planId = changes.planId;
     }

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import os from 'node:os';
+import { startBillingSweeps } from '../billing/billing-sweeps';
 import type { AppContext } from '../context';
 import { startRunWorker } from '../runs/runner';
 import type { SolveFn } from '../runs/supervisor';
@@ -10,7 +11,8 @@ import { WorkerPresence } from './worker-presence';
 const PURGE_EVERY_MS = 60 * 60 * 1000;
 
 /**
- * Everything a worker process does: solve runs, deliver webhooks, forget expired Idempotency-Keys.
+ * Everything a worker process does: solve runs, deliver webhooks, forget expired Idempotency-Keys,
+ * end billing grace periods and resend usage reports.
  * Its presence in the database (`worker-presence.ts`) is what other workers go by to tell whether
  * the runs it holds are still in hand.
  */
@@ -21,6 +23,7 @@ export async function startWorkers(ctx: AppContext, opts: { concurrency?: number
   await presence.start();
   const runs = await startRunWorker(ctx, { ...opts, workerId, presence });
   const hooks = await startWebhookWorker(ctx, presence);
+  const billing = startBillingSweeps(ctx);
   const purge = setInterval(() => {
     purgeExpiredIdempotencyKeys(ctx.db.manager).catch((err) => ctx.log.warn({ err }, 'purging idempotency keys failed'));
   }, PURGE_EVERY_MS);
@@ -30,7 +33,7 @@ export async function startWorkers(ctx: AppContext, opts: { concurrency?: number
     /** Stops taking work; waits up to `graceMs` for what is in hand (all of it by default), then leaves. */
     async stop(graceMs?: number) {
       clearInterval(purge);
-      await Promise.all([runs.stop(graceMs), hooks.stop(graceMs)]);
+      await Promise.all([runs.stop(graceMs), hooks.stop(graceMs), billing.stop()]);
       await presence.stop();
     },
   };

@@ -13,6 +13,7 @@ export const navItems: NavItem[] = [
   { to: '/webhooks', label: 'Webhooks', permission: 'webhooks.read', group: 'tenant' },
   { to: '/export-profiles', label: 'CSV exports', permission: 'exportProfiles.read', group: 'tenant' },
   { to: '/usage', label: 'Usage', permission: 'usage.read', group: 'tenant' },
+  { to: '/billing', label: 'Billing', permission: 'billing.read', group: 'tenant' },
   { to: '/team', label: 'Team', permission: 'members.read', group: 'tenant' },
   { to: '/activity', label: 'Activity log', permission: 'audit.read', group: 'tenant' },
   { to: '/operator/tenants', label: 'Tenants', permission: 'tenants.operate', group: 'operator' },

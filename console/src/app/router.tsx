@@ -9,6 +9,7 @@ import { SignInRoute } from '@/features/auth/routes/sign-in';
 import { AccountRoute } from '@/features/auth/routes/account';
 import { ActivityRoute } from '@/features/audit/routes/activity';
 import { ServiceAuditRoute } from '@/features/audit/routes/service-audit';
+import { BillingRoute } from '@/features/billing/routes/billing';
 import { ExportProfilesRoute } from '@/features/export-profiles/routes/export-profiles';
 import { KeysRoute } from '@/features/keys/routes/keys';
 import { OutboxRoute } from '@/features/operator/routes/outbox';
@@ -47,6 +48,7 @@ export const router = createBrowserRouter([
       { path: 'webhooks', element: guarded('webhooks.read', <WebhooksRoute />) },
       { path: 'export-profiles', element: guarded('exportProfiles.read', <ExportProfilesRoute />) },
       { path: 'usage', element: guarded('usage.read', <UsageRoute />) },
+      { path: 'billing', element: guarded('billing.read', <BillingRoute />) },
       { path: 'team', element: guarded('members.read', <TeamRoute />) },
       { path: 'activity', element: guarded('audit.read', <ActivityRoute />) },
       { path: 'account', element: <AccountRoute /> },

@@ -56,7 +56,7 @@ export function UsageCharts({ usage }: { usage: Usage }) {
   );
 }
 
-const limitLabels: Record<keyof Schemas['Limits'], string> = {
+export const limitLabels: Record<keyof Schemas['Limits'], string> = {
   monthlyRuns: 'Runs per month',
   monthlySolverSeconds: 'Solver-seconds per month',
   maxSteps: 'Steps per run',

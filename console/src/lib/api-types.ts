@@ -76,6 +76,32 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/hooks/payments": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * The payment provider's events (checkout completed, invoice paid, payment failed, subscription updated or cancelled).
+         * @description Called by the payment provider, not by clients. The body is read raw and verified with the
+         *     provider SDK's own signature check on the `Stripe-Signature` header (HMAC-SHA256 of
+         *     `<timestamp>.<body>` under the endpoint's signing secret, `BILLING_WEBHOOK_SECRET`); a bad
+         *     signature or one older than `BILLING_EVENT_TOLERANCE_SECONDS` is refused with 400. Each event
+         *     is processed once (by its id), in any order: the tenant's plan follows the customer's
+         *     subscriptions as the provider shows them when the event is processed. A 503 asks the provider
+         *     to send the event again.
+         */
+        post: operations["receivePaymentEvent"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/auth/sign-in": {
         parameters: {
             query?: never;
@@ -429,8 +455,133 @@ export interface paths {
             cookie?: never;
         };
         get?: never;
-        /** Move your tenant to another plan (overrides an operator set stay). */
+        /**
+         * Change your tenant's plan (with billing on, through its subscription).
+         * @description With billing on, an owner changes the plan of the tenant's subscription: a higher plan takes
+         *     effect at once and the rest of the period is charged to the card on file (402 when it is
+         *     declined, and nothing changes); a lower plan takes effect at the end of the period, the tenant
+         *     keeping what it paid for until then; the free plan cancels the subscription at the end of the
+         *     period. A tenant without a subscription buys a plan with `POST /v1/billing/checkout` (409
+         *     `checkout-required`). Operators grant plans with `PUT /v1/admin/tenants/{id}/plan-grant`
+         *     (409 `use-plan-grant`).
+         *
+         *     With billing off, plans are set by operators: an operator (with `X-Tenant-Id`) sets the plan
+         *     here at no cost, and an owner is answered 409 `plans-set-by-operators`. Limit overrides an
+         *     operator set stay either way.
+         */
         put: operations["changePlan"];
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Your plan's billing — subscription, scheduled changes, grace period, card on file, prices.
+         * @description Always answers; `enabled: false` means billing is off and plans are set by operators. The card
+         *     on file (brand, last four digits, expiry) is read from the payment provider each time:
+         *     Gridwright stores nothing about cards.
+         */
+        get: operations["getBilling"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/checkout": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Start buying a plan; answers the payment provider's hosted checkout page to send the owner to.
+         * @description Creates the tenant's customer at the provider (once) and a checkout session for a monthly
+         *     subscription to the plan, with solver-seconds above the plan's allowance billed as metered
+         *     usage. The plan changes when the provider's events report the checkout completed and paid.
+         */
+        post: operations["startCheckout"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/subscription/cancel": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Cancel the subscription at the end of its period; the tenant then moves to the free plan, keeping its data. */
+        post: operations["cancelSubscription"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/subscription/resume": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Take back a cancellation that has not taken effect yet. */
+        post: operations["resumeSubscription"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/invoices": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Your invoices at the payment provider, newest first, each with its hosted page. */
+        get: operations["listInvoices"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/billing/upcoming-invoice": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** The next invoice as it stands — the next period's plan and this period's solver-seconds above the plan so far. */
+        get: operations["getUpcomingInvoice"];
+        put?: never;
         post?: never;
         delete?: never;
         options?: never;
@@ -528,6 +679,45 @@ export interface paths {
         put?: never;
         post?: never;
         delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/admin/tenants/{id}/billing": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        /** A tenant's billing standing as Gridwright records it (operators). */
+        get: operations["adminGetTenantBilling"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/admin/tenants/{id}/plan-grant": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        get?: never;
+        /** Give a tenant a plan without payment (audited); it holds whatever its subscription says until the grant ends. */
+        put: operations["adminGrantPlan"];
+        post?: never;
+        /** End a grant (audited); the tenant returns to its subscription's plan, or the free plan. */
+        delete: operations["adminEndPlanGrant"];
         options?: never;
         head?: never;
         patch?: never;
@@ -1750,6 +1940,116 @@ export interface components {
             /** Format: date-time */
             createdAt: string;
         };
+        BillingStanding: {
+            /** @description False: billing is off and plans are set by operators. */
+            enabled: boolean;
+            /** @description The plan the tenant has now. */
+            planId: string;
+            /**
+             * @description Where the plan comes from: a paid subscription, an operator's grant, the free plan, or a plan assigned without payment.
+             * @enum {string}
+             */
+            planSource: "subscription" | "grant" | "free" | "assigned";
+            /** @description The plan a tenant falls back to when its subscription ends. */
+            freePlanId: string;
+            /** @description The tenant's customer at the payment provider. */
+            customerId: string | null;
+            subscription: {
+                id: string;
+                /** @enum {string} */
+                status: "active" | "trialing" | "past_due";
+                /** @description The plan the subscription bills (after a downgrade: from the next period). */
+                planId: string;
+                /** Format: date-time */
+                currentPeriodStart: string | null;
+                /** Format: date-time */
+                currentPeriodEnd: string | null;
+                cancelAtPeriodEnd: boolean;
+                /** @description The plan from `scheduledAt` on, when a downgrade or a cancellation is waiting for the period's end. */
+                scheduledPlanId: string | null;
+                /** Format: date-time */
+                scheduledAt: string | null;
+            } | null;
+            /**
+             * Format: date-time
+             * @description Set while a renewal is unpaid: the tenant keeps its plan until then.
+             */
+            graceEndsAt: string | null;
+            grant: {
+                planId: string;
+                reason: string;
+                /** Format: date-time */
+                grantedAt: string;
+                grantedBy: string | null;
+            } | null;
+        };
+        BillingOverview: components["schemas"]["BillingStanding"] & {
+            /** @description The plans for sale at the provider's prices (amounts in the currency's minor unit). */
+            prices: {
+                planId: string;
+                amount: number;
+                currency: string;
+                interval: string;
+            }[];
+            /** @description Solver-seconds above the plan's allowance: `amount` per started block of `perSolverSeconds`. */
+            usagePrice: {
+                amount: number;
+                currency: string;
+                perSolverSeconds: number;
+            } | null;
+            /** @description The card on file as the provider shows it. */
+            paymentMethod: {
+                brand: string;
+                last4: string;
+                expMonth: number;
+                expYear: number;
+            } | null;
+        };
+        Invoice: {
+            id: string;
+            number: string | null;
+            /** @description draft, open, paid, uncollectible or void */
+            status: string | null;
+            /** @description Why it was made: subscription_create, subscription_cycle, subscription_update… */
+            reason: string | null;
+            /** @description In the currency's minor unit. */
+            total: number;
+            amountDue: number;
+            amountPaid: number;
+            amountRemaining: number;
+            currency: string;
+            /** Format: date-time */
+            createdAt: string;
+            /** Format: date-time */
+            periodStart: string | null;
+            /** Format: date-time */
+            periodEnd: string | null;
+            /** Format: date-time */
+            paidAt: string | null;
+            /** @description The invoice's page at the provider (an open invoice can be paid there). */
+            hostedUrl: string | null;
+            pdfUrl: string | null;
+        };
+        UpcomingInvoice: {
+            total: number;
+            amountDue: number;
+            currency: string;
+            /** Format: date-time */
+            periodStart: string;
+            /** Format: date-time */
+            periodEnd: string;
+            /** Format: date-time */
+            nextPaymentAt: string | null;
+            lines: {
+                description: string;
+                amount: number;
+                quantity: number | null;
+                /** Format: date-time */
+                periodStart: string;
+                /** Format: date-time */
+                periodEnd: string;
+            }[];
+        };
         Member: {
             /** Format: uuid */
             id: string;
@@ -1956,7 +2256,25 @@ export interface components {
                 "application/problem+json": components["schemas"]["Problem"];
             };
         };
-        /** @description Temporarily unavailable (database unreachable); retry after `Retry-After` seconds. */
+        /** @description The payment provider declined the card; `detail` carries its message for the card holder. */
+        PaymentDeclined: {
+            headers: {
+                [name: string]: unknown;
+            };
+            content: {
+                "application/problem+json": components["schemas"]["Problem"];
+            };
+        };
+        /** @description Not possible in the current state (the problem's `type` says which), e.g. billing is off, a plan was granted, no subscription. */
+        Conflict: {
+            headers: {
+                [name: string]: unknown;
+            };
+            content: {
+                "application/problem+json": components["schemas"]["Problem"];
+            };
+        };
+        /** @description Temporarily unavailable (database or payment provider unreachable); retry after `Retry-After` seconds. */
         Unavailable: {
             headers: {
                 [name: string]: unknown;
@@ -2064,6 +2382,75 @@ export interface operations {
                     "application/yaml": string;
                 };
             };
+        };
+    };
+    receivePaymentEvent: {
+        parameters: {
+            query?: never;
+            header: {
+                /** @example t=1796179200,v1=5257a869e7ecebeda32affa62cdca3fa51cad7e77a0e56ff536d0ce8e108d8bd */
+                "Stripe-Signature": string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        /** @description An event of the provider (`{ id, object: "event", type, created, data: { object } }`), at most 512 kB. */
+        requestBody: {
+            content: {
+                "application/json": Record<string, never>;
+            };
+        };
+        responses: {
+            /** @description Received; `outcome` says whether it was processed now, had been processed before, or is not one billing acts on. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    /**
+                     * @example {
+                     *       "received": true,
+                     *       "outcome": "processed",
+                     *       "eventId": "evt_3Qx0aPz2Wd1eM7bT"
+                     *     }
+                     */
+                    "application/json": {
+                        /** @constant */
+                        received: true;
+                        /** @enum {string} */
+                        outcome: "processed" | "duplicate" | "ignored";
+                        eventId: string;
+                    };
+                };
+            };
+            /** @description The signature is missing, does not match, or is too old. */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Billing is off (no provider configured). */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than 512 kB. */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            503: components["responses"]["Unavailable"];
         };
     };
     signIn: {
@@ -2782,7 +3169,7 @@ export interface operations {
             };
         };
         responses: {
-            /** @description Changed. */
+            /** @description Changed, or the change is scheduled (see `GET /v1/billing`). */
             200: {
                 headers: {
                     [name: string]: unknown;
@@ -2793,7 +3180,189 @@ export interface operations {
             };
             400: components["responses"]["BadRequest"];
             401: components["responses"]["Unauthorized"];
+            402: components["responses"]["PaymentDeclined"];
             403: components["responses"]["Forbidden"];
+            409: components["responses"]["Conflict"];
+            503: components["responses"]["Unavailable"];
+        };
+    };
+    getBilling: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The billing overview. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingOverview"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            503: components["responses"]["Unavailable"];
+        };
+    };
+    startCheckout: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                /**
+                 * @example {
+                 *       "planId": "field"
+                 *     }
+                 */
+                "application/json": {
+                    planId: string;
+                };
+            };
+        };
+        responses: {
+            /** @description The checkout session. */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    /**
+                     * @example {
+                     *       "id": "cs_test_a1b2c3d4e5f6",
+                     *       "url": "https://checkout.example/pay/cs_test_a1b2c3d4e5f6",
+                     *       "expiresAt": "2026-12-02T08:00:00.000Z"
+                     *     }
+                     */
+                    "application/json": {
+                        id: string;
+                        /**
+                         * Format: uri
+                         * @description The provider's hosted checkout page.
+                         */
+                        url: string;
+                        /** Format: date-time */
+                        expiresAt: string;
+                    };
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            409: components["responses"]["Conflict"];
+            503: components["responses"]["Unavailable"];
+        };
+    };
+    cancelSubscription: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Cancelled at the end of the period. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingOverview"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            409: components["responses"]["Conflict"];
+            503: components["responses"]["Unavailable"];
+        };
+    };
+    resumeSubscription: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The subscription renews again. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingOverview"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            409: components["responses"]["Conflict"];
+            503: components["responses"]["Unavailable"];
+        };
+    };
+    listInvoices: {
+        parameters: {
+            query?: {
+                limit?: number;
+                /** @description `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description A page of invoices. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": {
+                        items: components["schemas"]["Invoice"][];
+                        nextCursor: string | null;
+                    };
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            409: components["responses"]["Conflict"];
+            503: components["responses"]["Unavailable"];
+        };
+    };
+    getUpcomingInvoice: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The invoice preview. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["UpcomingInvoice"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            409: components["responses"]["Conflict"];
+            503: components["responses"]["Unavailable"];
         };
     };
     adminListTenants: {
@@ -3029,6 +3598,96 @@ export interface operations {
             401: components["responses"]["Unauthorized"];
             403: components["responses"]["Forbidden"];
             404: components["responses"]["NotFound"];
+        };
+    };
+    adminGetTenantBilling: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The standing. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingStanding"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+        };
+    };
+    adminGrantPlan: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                /**
+                 * @example {
+                 *       "planId": "fleet",
+                 *       "reason": "pilot partnership until March"
+                 *     }
+                 */
+                "application/json": {
+                    planId: string;
+                    reason: string;
+                };
+            };
+        };
+        responses: {
+            /** @description Granted. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingStanding"];
+                };
+            };
+            400: components["responses"]["BadRequest"];
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+        };
+    };
+    adminEndPlanGrant: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Ended. */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BillingStanding"];
+                };
+            };
+            401: components["responses"]["Unauthorized"];
+            403: components["responses"]["Forbidden"];
+            404: components["responses"]["NotFound"];
+            409: components["responses"]["Conflict"];
         };
     };
     adminListOutbox: {

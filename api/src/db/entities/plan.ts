@@ -13,4 +13,6 @@ export class Plan {
   @Column('integer', { name: 'concurrent_runs' }) concurrentRuns!: number;
   @Column('integer', { name: 'webhook_endpoints' }) webhookEndpoints!: number;
   @Column('integer', { name: 'sort_order' }) sortOrder!: number;
+  /** The payment provider's price this plan is sold at, by its lookup key; null: not for sale. */
+  @Column('text', { name: 'price_lookup_key', nullable: true }) priceLookupKey!: string | null;
 }

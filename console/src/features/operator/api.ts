@@ -54,3 +54,14 @@ export const listOutbox = (f: OutboxFilters) =>
 export const getOutboxQueryOptions = (f: OutboxFilters) =>
   queryOptions({ queryKey: ['admin', 'outbox', f], queryFn: () => listOutbox(f), placeholderData: keepPreviousData, refetchInterval: 5000 });
 export const useOutbox = (f: OutboxFilters) => useQuery(getOutboxQueryOptions(f));
+
+export type TenantBilling = Schemas['BillingStanding'];
+
+export const getTenantBilling = (id: string) => unwrap(api.GET('/v1/admin/tenants/{id}/billing', { params: { path: { id } } }));
+export const getTenantBillingQueryOptions = (id: string) => queryOptions({ queryKey: ['admin', 'tenants', 'billing', id], queryFn: () => getTenantBilling(id) });
+export const useTenantBilling = (id: string) => useQuery(getTenantBillingQueryOptions(id));
+
+export const useGrantPlan = (id: string) =>
+  useTenantsMutation((body: { planId: string; reason: string }) => unwrap(api.PUT('/v1/admin/tenants/{id}/plan-grant', { params: { path: { id } }, body })));
+
+export const useEndPlanGrant = (id: string) => useTenantsMutation(() => unwrap(api.DELETE('/v1/admin/tenants/{id}/plan-grant', { params: { path: { id } } })));

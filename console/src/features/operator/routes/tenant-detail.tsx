@@ -10,6 +10,7 @@ import { formatDateTime } from '@/lib/format';
 import { usePlans } from '@/lib/queries/plans';
 import { useResumeTenant, useSuspendTenant, useTenant, useTenantUsage, useUpdateTenant } from '../api';
 import { LimitOverridesForm } from '../components/limit-overrides-form';
+import { TenantBillingPanel } from '../components/tenant-billing-panel';
 
 export function TenantDetailRoute() {
   const { tenantId = '' } = useParams();
@@ -47,6 +48,9 @@ export function TenantDetailRoute() {
           <div className="mt-3">
             <LimitsList limits={t.limits} overrides={t.limitOverrides} />
           </div>
+        </Panel>
+        <Panel title="Billing">
+          <TenantBillingPanel tenantId={tenantId} />
         </Panel>
         <Panel title="Limit overrides">
           <LimitOverridesForm key={JSON.stringify(t.limitOverrides)} tenant={t} />
