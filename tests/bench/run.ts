@@ -25,22 +25,15 @@ import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/
 import { apiReadsSection } from './api-reads';
 import { islandYearSection } from './island-year';
 import { queueThroughputSection } from './queue-throughput';
-import { rollingBoundSection, type BenchSection } from './rolling-bound';
+import { rollingBoundSection, type BenchSection, type SectionRow } from './rolling-bound';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
 import { storeValuationSection } from './store-valuation';
 
 const quick = process.argv.includes('--quick');
 
-interface Row {
+/** A row of the table: a section's row (rolling-bound.ts) with the section it belongs to. */
+interface Row extends SectionRow {
   section: string;
-  variant: string;
-  binaries?: number;
-  nonzeros?: number;
-  buildS?: number;
-  solveS?: number;
-  wallS?: number;
-  objective?: number | null;
-  note: string;
 }
 
 /** The solver every section shares, as one worker process shares its threads among its runs. */

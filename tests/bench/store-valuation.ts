@@ -4,33 +4,11 @@
 // batteries, on the pump-station and power-to-X demo sites repeated over several days: each rolling
 // objective against the monolithic optimum of the same horizon.
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import { exampleSites } from '@gridwright/shared/examples';
 import { solveSite } from '../../api/src/engine/solve-site';
 import type { StoreValuation } from '../../api/src/engine/terminal-values';
 import { verifySchedule } from '../../api/src/engine/verify-schedule';
-import { resolveSpec } from '../reference/support/specs';
+import { repeatedExample } from '../engine/synthetic-sites';
 import { resultRow, timedSolve, type BenchSection, type SectionOptions, type SectionRow } from './rolling-bound';
-
-/** A demo site over `days` days: every per-step series repeated, hourly windows of a day (the default's 36 h would cover most of it). */
-export function repeatedDemo(id: string, days: number): ResolvedSiteSpec {
-  const spec = structuredClone(exampleSites.find((e) => e.id === id)!.spec) as any;
-  const T = spec.horizon.steps;
-  const rep = (a: unknown) => (Array.isArray(a) ? Array.from({ length: T * days }, (_, t) => a[t % T]) : a);
-  spec.horizon.steps = T * days;
-  spec.supply.availableKw = rep(spec.supply.availableKw);
-  if (spec.siteLoad) spec.siteLoad.kw = rep(spec.siteLoad.kw);
-  if (spec.grid) {
-    spec.grid.importPrice = rep(spec.grid.importPrice);
-    spec.grid.exportPrice = rep(spec.grid.exportPrice);
-  }
-  if (spec.reserve) spec.reserve.upKw = rep(spec.reserve.upKw);
-  for (const s of spec.stores ?? []) {
-    s.demandPerHour = rep(s.demandPerHour);
-    s.inflowPerHour = rep(s.inflowPerHour);
-  }
-  spec.solver = { mipGap: 1e-4, timeLimitSeconds: 900 };
-  return resolveSpec(spec);
-}
 
 const VALUATIONS: StoreValuation[] = ['water-value', 'median-energy', 'none'];
 
@@ -39,7 +17,7 @@ export async function storeValuationSection({ solver, quick, log }: SectionOptio
   const summary: string[] = [];
   const days = quick ? 2 : 4;
   for (const id of ['solar-pump-station', 'grid-electrolyser']) {
-    const spec = repeatedDemo(id, days);
+    const spec = repeatedExample(id, days, { mipGap: 1e-4, timeLimitSeconds: 900 });
     log(`store valuation: ${id}, ${days} days, monolithic`);
     const whole = await timedSolve({ ...spec, solver: { ...spec.solver, mode: 'monolithic' } }, solver);
     const optimum = whole.r.objective.value!;

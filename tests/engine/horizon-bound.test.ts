@@ -9,7 +9,6 @@
 import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import { exampleSites } from '@gridwright/shared/examples';
 import { Deadline } from '../../api/src/engine/deadline';
 import { horizonBound } from '../../api/src/engine/horizon-bound';
 import { siteFacts } from '../../api/src/engine/plan-window';
@@ -20,7 +19,7 @@ import { defaultSolverThreads } from '../../api/src/solver/solver-threads';
 import { arbitraryResolvedSpec } from '../reference/support/arbitrary-spec';
 import { PROPERTY_TIMEOUT_MS, propertyRuns } from '../reference/support/check-result';
 import { solvePlain } from '../reference/support/plain-formulation';
-import { resolve } from './synthetic-sites';
+import { repeatedExample, resolve } from './synthetic-sites';
 
 const solver = new HighsSolverPool({ size: defaultSolverThreads() });
 afterAll(() => solver.close());
@@ -107,7 +106,7 @@ describe('the horizon bound of a rolling solve', () => {
 
   it('holds on three days of the power-to-X and pump-station demo sites', async () => {
     for (const id of ['grid-electrolyser', 'solar-pump-station']) {
-      const days = repeatedDays(id, 3);
+      const days = repeatedExample(id, 3, { timeLimitSeconds: 300 });
       const rolled = await solveSite({ ...days, solver: { ...days.solver, mode: 'rolling' } }, { solver });
       const whole = await solveSite({ ...days, solver: { ...days.solver, mode: 'monolithic' } }, { solver });
       expect(rolled.model.horizonBound!.reason, id).toBeNull();
@@ -133,24 +132,3 @@ describe('the horizon bound of a rolling solve', () => {
     expect(r.reason).toMatch(/time limit/);
   });
 });
-
-/** A demo site over `days` days: every per-step series repeated. */
-function repeatedDays(id: string, days: number): ResolvedSiteSpec {
-  const spec = structuredClone(exampleSites.find((e) => e.id === id)!.spec) as any;
-  const T = spec.horizon.steps;
-  const rep = (a: unknown) => (Array.isArray(a) ? Array.from({ length: T * days }, (_, t) => a[t % T]) : a);
-  spec.horizon.steps = T * days;
-  spec.supply.availableKw = rep(spec.supply.availableKw);
-  if (spec.siteLoad) spec.siteLoad.kw = rep(spec.siteLoad.kw);
-  if (spec.grid) {
-    spec.grid.importPrice = rep(spec.grid.importPrice);
-    spec.grid.exportPrice = rep(spec.grid.exportPrice);
-  }
-  if (spec.reserve) spec.reserve.upKw = rep(spec.reserve.upKw);
-  for (const s of spec.stores ?? []) {
-    s.demandPerHour = rep(s.demandPerHour);
-    s.inflowPerHour = rep(s.inflowPerHour);
-  }
-  spec.solver = { timeLimitSeconds: 300 };
-  return resolve(spec);
-}
