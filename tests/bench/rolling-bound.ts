@@ -61,7 +61,7 @@ function boundNote(r: SiteSolution): string {
   const hb = r.model.horizonBound;
   if (!hb) return 'no horizon bound';
   if (hb.reason) return `bound null: ${hb.reason}`;
-  return `bound ${r.objective.bound!.toFixed(2)}, gap ${pct(r.objective.gap)}; ${hb.blocks} LP blocks, ${hb.solveSeconds.toFixed(2)} s solver time summed`;
+  return `bound ${r.objective.bound!.toFixed(2)}, gap ${pct(r.objective.gap)}; ${hb.blocks} blocks, ${hb.solveSeconds.toFixed(2)} s solver time summed`;
 }
 
 export async function rollingBoundSection({ solver, quick, log }: SectionOptions): Promise<BenchSection> {
@@ -92,7 +92,7 @@ export async function rollingBoundSection({ solver, quick, log }: SectionOptions
   rows.push(resultRow(`${yearDays} d × 15 min (${year.horizon.steps} steps), rolling with its bound`, yr.r, yr.seconds, `${boundNote(yr.r)}; wall incl. bound and verification; target ≤ 60 s`));
   const met = yr.r.objective.bound !== null && yr.seconds <= 60;
   summary.push(
-    `Horizon bound, ${year.horizon.steps} steps: ${f(yr.seconds)} s wall including the bound (${yr.r.model.horizonBound?.blocks ?? 0} LP blocks, ` +
+    `Horizon bound, ${year.horizon.steps} steps: ${f(yr.seconds)} s wall including the bound (${yr.r.model.horizonBound?.blocks ?? 0} blocks, ` +
       `${f(yr.r.model.horizonBound?.solveSeconds ?? 0)} s solver time summed), proven gap ${pct(yr.r.objective.gap)} — target ≤ 60 s ${met ? 'met' : 'NOT met'}` +
       `${quick ? ' (quick: 14 days only)' : ''}.`,
   );
