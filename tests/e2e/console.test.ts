@@ -4,7 +4,7 @@ import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { exampleSites } from '@gridwright/shared/examples';
-import { launchBrowser, screenshot, type Browser } from './browser';
+import { launchBrowser, screenshot, screenshotDir, type Browser } from './browser';
 import { startConsoleApp, type ConsoleApp } from './console-app';
 
 let app: ConsoleApp;
@@ -33,6 +33,19 @@ async function setEditorText(text: string) {
   await page.locator('.cm-content').click();
   await page.keyboard.press('ControlOrMeta+a');
   await page.keyboard.insertText(text);
+}
+
+/**
+ * Types the opening quote of a new key after `text` — how completions pop up as one writes — and
+ * waits until the list the editor offers holds every one of `fields`.
+ */
+async function expectCompletions(text: string, fields: string[]) {
+  await setEditorText(text);
+  await page.keyboard.type('"');
+  const labels = page.locator('.cm-tooltip-autocomplete .cm-completionLabel');
+  await expect.poll(() => labels.allTextContents(), { message: text, timeout: 15_000 }).toEqual(expect.arrayContaining(fields));
+  await page.keyboard.press('Escape');
+  await page.locator('.cm-tooltip-autocomplete').waitFor({ state: 'detached' });
 }
 
 describe('console in a browser', () => {
@@ -85,13 +98,41 @@ describe('console in a browser', () => {
     expect(await page.content()).not.toContain(secret!);
   });
 
+  it('completes the fields of the v1.1 site model in the spec editor, from the site-spec schema', async () => {
+    await page.getByRole('link', { name: 'Workbench' }).click();
+    await page.getByTestId('spec-editor').waitFor();
+    // Each text ends where a new key of the object named begins; the editor offers the fields that object may have.
+    const cases: [string, string[]][] = [
+      ['{"units": [{"id": "g", "kind": "generator", ', ['costCurve', 'noLoadCostPerHour', 'startupCost', 'rampUpKwPerMin', 'rampDownKwPerMin', 'providesReserve', 'produces', 'consumes', 'valueCurve']],
+      ['{"units": [{"initial": {', ['powerKw', 'stepsInState']],
+      ['{"storage": [{', ['chargeFromSupplyOnly', 'providesReserve']],
+      ['{"stores": [{', ['product', 'unit', 'capacity', 'min', 'initial', 'final', 'demandPerHour', 'inflowPerHour', 'lossPerHour', 'shortfallPenaltyPerUnit', 'spillAllowed']],
+      ['{"reserve": {', ['upKw', 'shortfallPenaltyPerKwh']],
+      ['{"grid": {"demandCharges": [{', ['pricePerKw', 'window', 'existingPeakKw']],
+      ['{"grid": {"demandCharges": [{"window": {', ['daysOfWeek', 'from', 'to']],
+      ['{"horizon": {', ['timeZone']],
+    ];
+    for (const [text, fields] of cases) await expectCompletions(text, fields);
+  });
+
   // A solve on a loaded CI machine can take a while, so this step gets a longer limit than the default.
   it('checks, breaks, fixes and solves a template in the workbench, then inspects the run', async () => {
     await page.getByRole('link', { name: 'Workbench' }).click();
-    const template = exampleSites[0];
+    // The island microgrid: gensets with cost curves, a battery and a fuel tank, spinning reserve.
+    const template = exampleSites.find((e) => e.id === 'island-microgrid')!;
     await page.getByLabel('Demo site').selectOption(template.id);
     await page.getByRole('button', { name: 'Load template' }).click();
     await page.getByTestId('editor-problems').filter({ hasText: 'No problems found.' }).waitFor();
+
+    // Each unit's price curve is drawn beside the editor and follows the text.
+    const genA = page.getByTestId('unit-curves').getByRole('figure', { name: 'Price curve · gen-a' });
+    await genA.getByText('Convex').waitFor();
+    await genA.locator('svg.recharts-surface').first().waitFor();
+    await genA.screenshot({ path: `${screenshotDir}/workbench-price-curve.png` });
+    const spec = structuredClone(template.spec) as any;
+    spec.units[0].costCurve[1].costPerKwh = 0.2;
+    await setEditorText(JSON.stringify(spec, null, 2));
+    await genA.getByText('Not convex: slice 2 is cheaper than slice 1').waitFor();
 
     // stepMinutes must be one of 5, 10, 15, 30, 60 (SPEC.md §1); 7 is not.
     const broken = { ...template.spec, horizon: { ...template.spec.horizon, stepMinutes: 7 } };
@@ -119,18 +160,63 @@ describe('console in a browser', () => {
     await page.getByTestId('dispatch-charts').locator('svg.recharts-surface').first().waitFor();
     await page.getByText('Schedules are advisory.').first().waitFor();
     await expect(page.getByTestId('run-status').textContent()).resolves.toContain('succeeded');
+    // The island's store, reserve and money, each a chart found by its name, with a legend and its unit.
+    const charts = page.getByTestId('dispatch-charts');
+    for (const [name, unit] of [
+      ['Store level · diesel-tank (diesel)', 'L · limits 500–8,000'],
+      ['Spinning reserve: required vs held', 'kW'],
+      ['Where the money goes: objective terms', 'money'],
+      ['Unit power and reserve held', 'kW'],
+      ['State of charge · bess', 'kWh'],
+    ]) {
+      const figure = charts.getByRole('figure', { name });
+      await figure.locator('svg.recharts-surface').first().waitFor();
+      await figure.getByText(unit, { exact: false }).first().waitFor();
+      // Recharts draws its legend, and the bar chart its own list, once the plot has its size.
+      await figure.locator('.recharts-legend-wrapper, [aria-label="Legend"]').first().waitFor();
+    }
+    await charts.getByRole('figure', { name: 'Where the money goes: objective terms' }).getByText('value earned counts positive, cost negative').waitFor();
+    // The prices come from a second solve after the schedule; when the island's time limit leaves it no
+    // time (a loaded machine), the chart says that no price is known instead of drawing an empty plot.
+    const energyValue = charts.getByRole('figure', { name: 'Marginal value of energy' });
+    await energyValue.getByText('money/kWh').first().waitFor();
+    await energyValue.locator('.recharts-legend-wrapper').or(energyValue.getByText('No price is known at any step')).first().waitFor();
+    // Hot and cold starts per unit: gen-a has hot/cold start costs, gen-c one cost.
+    const unitKpis = page.getByRole('table', { name: 'Unit KPIs' });
+    await unitKpis.waitFor();
+    await expect(unitKpis.getByRole('columnheader').allTextContents()).resolves.toEqual(expect.arrayContaining(['Hot', 'Cold']));
+    await expect(unitKpis.getByRole('row').filter({ hasText: 'gen-c' }).textContent()).resolves.toContain('—');
     await screenshot(page, 'run-detail');
+    for (const [name, shot] of [
+      ['Store level · diesel-tank (diesel)', 'run-store-level'],
+      ['Spinning reserve: required vs held', 'run-reserve'],
+      ['Where the money goes: objective terms', 'run-objective-terms'],
+      ['Marginal value of energy', 'run-marginal-value'],
+    ]) {
+      await charts.getByRole('figure', { name }).screenshot({ path: `${screenshotDir}/${shot}.png` });
+    }
+
+    await page.getByRole('tab', { name: 'Step table' }).click();
+    const stepTable = page.getByRole('table', { name: 'Schedule', exact: true });
+    await stepTable.waitFor();
+    const headers = await stepTable.getByRole('columnheader').allTextContents();
+    expect(headers).toEqual(expect.arrayContaining(['Reserve required kW', 'Reserve held kW', 'Value of energy money/kWh', 'gen-a reserve kW', 'diesel-tank level L']));
+    await screenshot(page, 'step-table');
 
     await page.getByRole('tab', { name: 'Formulation report' }).click();
-    await page.getByTestId('formulation-report').getByRole('figure', { name: 'Coefficient ranges on a log scale' }).waitFor();
+    const report = page.getByTestId('formulation-report');
+    await report.getByRole('figure', { name: 'Coefficient ranges on a log scale' }).waitFor();
     await page.getByRole('table', { name: 'Rolling windows' }).waitFor();
+    await report.getByText('Internal unit · diesel-tank').waitFor();
+    await expect(report.getByLabel('Big-M kinds').textContent()).resolves.toContain('Reserve headroom');
     await screenshot(page, 'formulation-report');
 
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Download CSV' }).click()]);
     const csv = readFileSync((await download.path())!, 'utf8');
     const lines = csv.trim().split(/\r?\n/);
-    // One header line and one line per step of the template's horizon.
+    // One header line and one line per step of the template's horizon, with the store and reserve columns.
     expect(lines.length).toBe(template.spec.horizon.steps + 1);
+    expect(lines[0].split(',')).toEqual(expect.arrayContaining(['diesel-tank.level', 'site.reserveHeldKw', 'gen-a.reserveKw', 'site.marginalValuePerKwh']));
 
     const nav = page.getByRole('navigation', { name: 'Main' });
     await nav.getByRole('link', { name: 'Runs' }).click();

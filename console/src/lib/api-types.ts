@@ -903,12 +903,30 @@ export interface paths {
         };
         /**
          * The schedule as JSON, or as RFC 4180 CSV for a SCADA import.
-         * @description CSV with `Accept: text/csv` or `?format=csv`: a `timestamp` column, then `site.supplyUsedKw`,
-         *     `site.curtailedKw`, `site.unservedKw`, `grid.importKw`, `grid.exportKw`, and per unit
-         *     `<id>.on`, `<id>.powerKw`, per storage `<id>.chargeKw`, `<id>.dischargeKw`, `<id>.socKwh`
-         *     (`…Mw`/`…Mwh` in MW). A named export profile (`profile`, by name or id) sets unit, timestamp
-         *     style, delimiter and a tag map renaming columns to your SCADA tags; query parameters override
-         *     the profile. Schedules are advisory: a qualified operator approves setpoints before use.
+         * @description CSV with `Accept: text/csv` or `?format=csv`: one row per step, a `timestamp` column (the step's
+         *     start), then the v1 columns in their v1 order: `site.supplyUsedKw`, `site.curtailedKw`,
+         *     `site.unservedKw`, `grid.importKw`, `grid.exportKw`, per unit `<id>.on` (0 or 1) and
+         *     `<id>.powerKw`, per battery `<id>.chargeKw`, `<id>.dischargeKw`, `<id>.socKwh`. The site model
+         *     v1.1 columns follow them:
+         *
+         *     - `site.reserveRequiredKw`, `site.reserveHeldKw`, `site.reserveShortfallKw` — spinning reserve
+         *       required, held by the providers together, and short; only when the spec has a `reserve`.
+         *     - `site.marginalValuePerKwh` — what one more kWh delivered to the site is worth at the step
+         *       (money per kWh); an empty field where no price is known.
+         *     - `<unit>.reserveKw`, then `<battery>.reserveKw` — reserve each provider holds; only for assets
+         *       that provide reserve, when the spec has a `reserve`.
+         *     - per store `<id>.level` (at the end of the step), `<id>.shortfall` and `<id>.spill` (per hour),
+         *       all in the store's own `unit`, and `<id>.marginalValue` (money per unit of the store's product).
+         *
+         *     In MW (`powerUnit=MW`) the kW and kWh columns are divided by 1 000 and renamed `…Mw` / `…Mwh`, and
+         *     `site.marginalValuePerKwh` becomes `site.marginalValuePerMwh` (× 1 000); on/off flags and store
+         *     columns never change with the power unit. `timestamps=offset` writes each step in the local time
+         *     of the spec's `horizon.timeZone` with its offset (daylight saving included), or in the start's
+         *     own offset when the spec names no zone; `utc` writes UTC (`Z`). Fields are quoted as RFC 4180
+         *     asks (a tag name holding the delimiter, a quote or a line break). A named export profile
+         *     (`profile`, by name or id) sets unit, timestamp style, delimiter and a tag map renaming any of
+         *     these columns to your SCADA tags; query parameters override the profile. Schedules are advisory:
+         *     a qualified operator approves setpoints before use.
          */
         get: operations["getRunSchedule"];
         put?: never;
@@ -1857,7 +1875,7 @@ export interface components {
         WebhookDeliveryList: {
             items: components["schemas"]["WebhookDelivery"][];
         };
-        /** @description Column name (e.g. `ely-1.powerKw`) → your SCADA tag name. */
+        /** @description Column name → your SCADA tag name. Any column of the schedule CSV can be renamed (see `GET /v1/runs/{runId}/schedule`): `ely-1.powerKw`, `bess-1.socKwh`, and the v1.1 columns such as `h2-tank.level`, `site.reserveHeldKw`, `gen-1.reserveKw` or `site.marginalValuePerKwh`. Keys are the kW names; a renamed column keeps its tag in MW too. */
         TagMap: {
             [key: string]: string;
         };
@@ -4008,7 +4026,7 @@ export interface operations {
             query?: {
                 format?: "json" | "csv";
                 powerUnit?: "kW" | "MW";
-                /** @description `utc` (Z) or `offset` (the spec's own offset). */
+                /** @description `utc` (Z) or `offset` (local time of the spec's `horizon.timeZone`, else the start's own offset). */
                 timestamps?: "utc" | "offset";
                 delimiter?: "," | ";" | "tab" | "|";
                 /** @description An export profile's name or id. */
@@ -4031,8 +4049,8 @@ export interface operations {
                 content: {
                     "application/json": components["schemas"]["Schedule"];
                     /**
-                     * @example timestamp,site.supplyUsedKw,site.curtailedKw,site.unservedKw,grid.importKw,grid.exportKw,ely-1.on,ely-1.powerKw
-                     *     2027-02-28T23:00:00Z,0,0,0,40,0,0,0
+                     * @example timestamp,site.supplyUsedKw,site.curtailedKw,site.unservedKw,grid.importKw,grid.exportKw,ely-1.on,ely-1.powerKw,site.marginalValuePerKwh,h2-tank.level,h2-tank.shortfall,h2-tank.spill,h2-tank.marginalValue
+                     *     2027-02-28T23:00:00Z,0,0,0,40,0,1,40,0.21,402.8,0,0,4.2
                      */
                     "text/csv": string;
                 };

@@ -20,6 +20,7 @@ describe('a run through the queue', () => {
   let tenantId: string;
   let workers: Awaited<ReturnType<typeof startWorkers>>;
   let runId: string;
+  let demoRunIds: string[] = [];
   beforeAll(async () => {
     t = await startTestApp(FAST_QUEUE_ENV);
     ({ apiKey: key, tenantId } = await createTenantWithKey(t.ctx));
@@ -130,6 +131,50 @@ describe('a run through the queue', () => {
     for (const id of ids) {
       const run = await waitForRun(t.app, key, id, undefined, 60_000);
       expect(run.status, JSON.stringify(run.error)).toBe('succeeded');
+    }
+    demoRunIds = ids;
+  });
+
+  it('exports every v1.1 demo schedule as CSV equal to its JSON schedule, column by column', async () => {
+    expect(demoRunIds).toHaveLength(exampleSites.length);
+    for (const id of demoRunIds) {
+      const s = (await request(t.app).get(`/v1/runs/${id}/schedule`).set(bearer(key)).expect(200)).body;
+      const res = await request(t.app).get(`/v1/runs/${id}/schedule?format=csv`).set(bearer(key)).expect(200);
+      // The columns the README documents, each beside the JSON series it must equal (null: an empty field).
+      const expected: [string, (number | null)[]][] = [
+        ['site.supplyUsedKw', s.supplyUsedKw],
+        ['site.curtailedKw', s.curtailedKw],
+        ['site.unservedKw', s.unservedKw],
+        ['grid.importKw', s.grid.importKw],
+        ['grid.exportKw', s.grid.exportKw],
+        ['site.marginalValuePerKwh', s.marginalValues.energyPerKwh],
+      ];
+      if (s.reserve) {
+        expected.push(['site.reserveRequiredKw', s.reserve.requiredKw], ['site.reserveHeldKw', s.reserve.providedKw], ['site.reserveShortfallKw', s.reserve.shortfallKw]);
+      }
+      for (const [unit, u] of Object.entries<any>(s.units)) {
+        expected.push([`${unit}.on`, u.on], [`${unit}.powerKw`, u.powerKw]);
+        if (u.reserveKw) expected.push([`${unit}.reserveKw`, u.reserveKw]);
+      }
+      for (const [battery, b] of Object.entries<any>(s.storage)) {
+        expected.push([`${battery}.chargeKw`, b.chargeKw], [`${battery}.dischargeKw`, b.dischargeKw], [`${battery}.socKwh`, b.socKwh]);
+        if (b.reserveKw) expected.push([`${battery}.reserveKw`, b.reserveKw]);
+      }
+      for (const [store, st] of Object.entries<any>(s.stores)) {
+        expected.push([`${store}.level`, st.level], [`${store}.shortfall`, st.shortfall], [`${store}.spill`, st.spill], [`${store}.marginalValue`, s.marginalValues.stores[store]]);
+      }
+
+      const rows: Record<string, string>[] = parse(res.text, { columns: true });
+      expect(rows).toHaveLength(s.timestamps.length);
+      expect(Object.keys(rows[0]).sort()).toEqual(['timestamp', ...expected.map(([name]) => name)].sort());
+      rows.forEach((row, step) => {
+        expect(new Date(row.timestamp).getTime()).toBe(new Date(s.timestamps[step]).getTime());
+        for (const [name, series] of expected) {
+          const value = series[step];
+          if (value === null) expect(row[name], `${name} at step ${step}`).toBe('');
+          else expect(Number(row[name]), `${name} at step ${step}`).toBeCloseTo(value, 8);
+        }
+      });
     }
   });
 

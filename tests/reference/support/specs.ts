@@ -1,7 +1,7 @@
 /** Small helpers shared by the reference checks: resolving specs and switching reductions. */
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import { MAX_TIME_LIMIT_SECONDS, resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 
 /**
  * The read-only reference cases sit in `shared/` next to the project root, here and in CI
@@ -25,7 +25,10 @@ export const ALL_REDUCTIONS_OFF = { sparseSets: false, tightBigM: false, scaling
 
 /** A copy solved in one window with the given reductions and an exact gap. */
 export function monolithic(spec: ResolvedSiteSpec, reductions: ResolvedSiteSpec['solver']['reductions'], mipGap = 1e-9): ResolvedSiteSpec {
-  return { ...spec, solver: { ...spec.solver, mode: 'monolithic', mipGap, reductions: { ...reductions } } };
+  // The longest time limit: a check waits for the proof, so a busy machine cannot turn an optimum
+  // into a time-limit result.
+  const solver = { ...spec.solver, mode: 'monolithic' as const, mipGap, timeLimitSeconds: MAX_TIME_LIMIT_SECONDS, reductions: { ...reductions } };
+  return { ...spec, solver };
 }
 
 /** |a − b| ≤ rel · max(1, |a|, |b|): the comparison the reference README prescribes (1e-6). */

@@ -1,8 +1,9 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { RunResult, RunStatus } from '@gridwright/shared/run-result';
+import type { RunStatus } from '@gridwright/shared/run-result';
 import type { SiteSpec } from '@gridwright/shared/site-spec';
 import { api, nextCursorFromLink, saveDownload, unwrap } from '@/lib/api-client';
 import { isActive, runsQueryKey, type Run } from '@/lib/queries/runs';
+import { withSiteModelDefaults, type ShownResult } from './lib/stored-result';
 
 export interface RunFilters {
   status?: RunStatus | '';
@@ -15,9 +16,9 @@ export function objectiveValue(run: Run): number | null {
 }
 
 /** The SPEC.md §3 result of a finished run, or null while it has none. */
-export function runResult(run: Run): RunResult | null {
+export function runResult(run: Run): ShownResult | null {
   if (!run.model || !run.objective || !run.outcome) return null;
-  return {
+  return withSiteModelDefaults({
     status: run.status,
     outcome: run.outcome,
     objective: run.objective,
@@ -25,7 +26,7 @@ export function runResult(run: Run): RunResult | null {
     schedule: run.schedule ?? null,
     model: run.model,
     warnings: run.warnings ?? [],
-  };
+  });
 }
 
 export async function listRuns(filters: RunFilters): Promise<{ items: Run[]; nextCursor: string | null }> {

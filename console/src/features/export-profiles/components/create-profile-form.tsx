@@ -28,7 +28,7 @@ export function CreateProfileForm() {
         </SelectField>
         <SelectField label="Timestamps" value={timestamps} onChange={(e) => setTimestamps(e.target.value as typeof timestamps)}>
           <option value="utc">UTC (Z)</option>
-          <option value="offset">spec's offset</option>
+          <option value="offset">local (spec's time zone)</option>
         </SelectField>
         <SelectField label="Delimiter" value={delimiter} onChange={(e) => setDelimiter(e.target.value as typeof delimiter)}>
           <option value=",">comma</option>
@@ -44,10 +44,16 @@ export function CreateProfileForm() {
           rows={5}
           value={tags}
           onChange={(e) => setTags(e.target.value)}
-          placeholder={'ely-1.powerKw = PN.ELY1.P_SP\nbess-1.socKwh = PN.BESS1.SOC'}
+          placeholder={'ely-1.powerKw = PN.ELY1.P_SP\nbess-1.socKwh = PN.BESS1.SOC\nh2-tank.level = PN.TANK1.LVL'}
           aria-invalid={parsed.badLines.length > 0 || undefined}
           className="w-full rounded-md border border-ash-300 px-2.5 py-1.5 font-mono text-xs focus:border-kiln-500 focus:outline-none"
         />
+        <p className="mt-1 text-[11px] text-ash-500">
+          Columns by their kW names: <code className="font-mono">site.…Kw</code>, <code className="font-mono">grid.importKw</code>,{' '}
+          <code className="font-mono">&lt;unit&gt;.on|powerKw|reserveKw</code>, <code className="font-mono">&lt;battery&gt;.chargeKw|dischargeKw|socKwh|reserveKw</code>,{' '}
+          <code className="font-mono">site.reserveRequiredKw|reserveHeldKw|reserveShortfallKw</code>, <code className="font-mono">site.marginalValuePerKwh</code>,{' '}
+          <code className="font-mono">&lt;store&gt;.level|shortfall|spill|marginalValue</code> (in the store&apos;s unit).
+        </p>
         {parsed.badLines.length > 0 && <p className="text-xs text-red-700">Line {parsed.badLines.join(', ')}: write it as column = tag.</p>}
       </div>
       <ProblemAlert error={create.error} />

@@ -1,11 +1,14 @@
 import { useMemo } from 'react';
 import { Bar, BarChart, CartesianGrid, Cell, ReferenceArea, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { ModelReport } from '@gridwright/shared/run-result';
+import type { SiteSpec } from '@gridwright/shared/site-spec';
 import { Table, Td, Th } from '@/components/data-table';
 import { Panel } from '@/components/page-header';
 import { chartColors } from '@/lib/chart-colors';
 import { formatNumber, formatPercent, formatSeconds } from '@/lib/format';
+import { bigMKindCounts, classifyBigM } from '../lib/big-m-kinds';
 import { coefficientBars, HEALTHY_BAND, HEALTHY_ORDERS } from '../lib/chart-data';
+import { storeUnit } from '../lib/level-points';
 
 const pow10 = (n: number) => `1e${n}`;
 
@@ -68,7 +71,69 @@ function HorizonBoundStats({ bound }: { bound: NonNullable<ModelReport['horizonB
   );
 }
 
-export function FormulationReport({ model }: { model: ModelReport }) {
+/**
+ * The internal units `scaling` chose (1 each when it is off): power, money, each store in its own
+ * unit, and the demand-charge peaks (SPEC §5 keeps store levels and peaks near order one too).
+ */
+function InternalUnits({ scale, spec }: { scale: ModelReport['scale']; spec: SiteSpec | undefined }) {
+  const stores = Object.entries(scale.stores);
+  return (
+    <>
+      <Stat label="Internal units" value={`${formatNumber(scale.powerKw)} kW · ${formatNumber(scale.money)} money`} />
+      {stores.map(([id, factor]) => (
+        <Stat key={id} label={`Internal unit · ${id}`} value={`${formatNumber(factor)} ${storeUnit(spec?.stores?.find((s) => s.id === id))}`} />
+      ))}
+      {(spec?.grid?.demandCharges?.length ?? 0) > 0 && <Stat label="Internal unit · demand-charge peaks" value={`${formatNumber(scale.demandPeakKw)} kW`} />}
+    </>
+  );
+}
+
+function BigMPanel({ model }: { model: ModelReport }) {
+  const rows = useMemo(() => classifyBigM(model.bigM), [model]);
+  const kinds = useMemo(() => bigMKindCounts(rows), [rows]);
+  return (
+    <Panel title={`Big-M values (${model.bigM.length})`} className="lg:col-span-3">
+      {rows.length === 0 ? (
+        <p className="text-sm text-ash-500">This model uses no big-M constraint.</p>
+      ) : (
+        <div className="grid gap-3 md:grid-cols-[minmax(0,1fr)_minmax(0,2fr)]">
+          <dl className="space-y-1 text-[12px]" aria-label="Big-M kinds">
+            {kinds.map((k) => (
+              <div key={k.id}>
+                <dt className="inline font-medium text-ash-800">
+                  {k.label} ({k.count})
+                </dt>
+                <dd className="inline text-ash-600"> — {k.bounds}</dd>
+              </div>
+            ))}
+          </dl>
+          <div className="max-h-72 overflow-y-auto">
+            <Table label="Big-M values">
+              <thead>
+                <tr>
+                  <Th>Kind</Th>
+                  <Th>Where</Th>
+                  <Th className="text-right">Value (kW)</Th>
+                </tr>
+              </thead>
+              <tbody>
+                {rows.map((m) => (
+                  <tr key={m.where}>
+                    <Td className="whitespace-nowrap text-xs">{m.kindLabel}</Td>
+                    <Td className="font-mono text-xs">{m.where}</Td>
+                    <Td className="text-right font-mono text-xs">{formatNumber(m.value)}</Td>
+                  </tr>
+                ))}
+              </tbody>
+            </Table>
+          </div>
+        </div>
+      )}
+    </Panel>
+  );
+}
+
+export function FormulationReport({ model, spec }: { model: ModelReport; spec?: SiteSpec }) {
   const reductions = Object.entries(model.reductions);
   return (
     <div className="grid gap-3 lg:grid-cols-3" data-testid="formulation-report">
@@ -86,7 +151,7 @@ export function FormulationReport({ model }: { model: ModelReport }) {
           <Stat label="Build" value={formatSeconds(model.buildSeconds)} />
           <Stat label="Solver time (summed)" value={formatSeconds(model.solveSeconds)} />
           <Stat label="Solver" value={`${model.solver.name} ${model.solver.version}`} />
-          {model.scale && <Stat label="Internal units" value={`${model.scale.powerKw} kW · ${model.scale.money} money`} />}
+          {model.scale && <InternalUnits scale={model.scale} spec={spec} />}
         </dl>
         <ul className="mt-2 flex flex-wrap gap-1" aria-label="Reductions">
           {reductions.map(([name, on]) => (
@@ -99,31 +164,8 @@ export function FormulationReport({ model }: { model: ModelReport }) {
       <Panel title="Coefficient ranges" className="lg:col-span-2">
         <CoefficientRangeChart model={model} />
       </Panel>
-      <Panel title={`Big-M values (${model.bigM.length})`}>
-        {model.bigM.length === 0 ? (
-          <p className="text-sm text-ash-500">This model uses no big-M constraint.</p>
-        ) : (
-          <div className="max-h-72 overflow-y-auto">
-            <Table label="Big-M values">
-              <thead>
-                <tr>
-                  <Th>Where</Th>
-                  <Th className="text-right">Value (kW)</Th>
-                </tr>
-              </thead>
-              <tbody>
-                {model.bigM.map((m) => (
-                  <tr key={m.where}>
-                    <Td className="font-mono text-xs">{m.where}</Td>
-                    <Td className="text-right font-mono text-xs">{formatNumber(m.value)}</Td>
-                  </tr>
-                ))}
-              </tbody>
-            </Table>
-          </div>
-        )}
-      </Panel>
-      <Panel title={`Windows (${model.windows.length})`} className="lg:col-span-2">
+      <BigMPanel model={model} />
+      <Panel title={`Windows (${model.windows.length})`} className="lg:col-span-3">
         <div className="max-h-72 overflow-y-auto">
           <Table label="Rolling windows">
             <thead>

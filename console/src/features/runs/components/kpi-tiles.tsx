@@ -1,4 +1,4 @@
-import type { RunResult } from '@gridwright/shared/run-result';
+import type { ShownResult } from '../lib/stored-result';
 import { formatNumber, formatPercent, formatSeconds } from '@/lib/format';
 
 function Tile({ label, value, unit, emphasis }: { label: string; value: string; unit?: string; emphasis?: boolean }) {
@@ -17,7 +17,7 @@ function Tile({ label, value, unit, emphasis }: { label: string; value: string; 
  * `elapsedSeconds`: the run's solve as the worker timed it. The model report's solver seconds are
  * summed over windows and blocks solved side by side, so they can exceed it.
  */
-export function KpiTiles({ result, elapsedSeconds }: { result: RunResult; elapsedSeconds: number | null | undefined }) {
+export function KpiTiles({ result, elapsedSeconds }: { result: ShownResult; elapsedSeconds: number | null | undefined }) {
   const k = result.kpis;
   return (
     <div className="grid grid-cols-2 gap-2 md:grid-cols-4 xl:grid-cols-8" data-testid="kpi-tiles">

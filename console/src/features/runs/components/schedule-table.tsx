@@ -1,58 +1,35 @@
 import { useVirtualizer } from '@tanstack/react-virtual';
 import { useMemo, useRef } from 'react';
 import type { Schedule } from '@gridwright/shared/run-result';
+import type { SiteSpec } from '@gridwright/shared/site-spec';
 import { shortTime } from '../lib/chart-data';
-
-interface Column {
-  key: string;
-  label: string;
-  value: (step: number) => number;
-  onOff?: boolean;
-}
-
-function columnsFor(schedule: Schedule): Column[] {
-  const cols: Column[] = [
-    { key: 'used', label: 'Supply used', value: (t) => schedule.supplyUsedKw[t] },
-    { key: 'curt', label: 'Curtailed', value: (t) => schedule.curtailedKw[t] },
-    { key: 'unserved', label: 'Unserved', value: (t) => schedule.unservedKw[t] },
-    { key: 'imp', label: 'Import', value: (t) => schedule.grid.importKw[t] },
-    { key: 'exp', label: 'Export', value: (t) => schedule.grid.exportKw[t] },
-  ];
-  for (const [id, u] of Object.entries(schedule.units)) {
-    cols.push({ key: `${id}:on`, label: `${id} on`, value: (t) => u.on[t], onOff: true });
-    cols.push({ key: `${id}:p`, label: `${id} kW`, value: (t) => u.powerKw[t] });
-  }
-  for (const [id, s] of Object.entries(schedule.storage)) {
-    cols.push({ key: `${id}:c`, label: `${id} charge`, value: (t) => s.chargeKw[t] });
-    cols.push({ key: `${id}:d`, label: `${id} discharge`, value: (t) => s.dischargeKw[t] });
-    cols.push({ key: `${id}:soc`, label: `${id} SOC kWh`, value: (t) => s.socKwh[t] });
-  }
-  return cols;
-}
+import { stepColumns } from '../lib/step-columns';
 
 const ROW = 26;
-const fmt = (n: number | undefined) => (n === undefined ? '—' : Number.isInteger(n) ? String(n) : n.toFixed(2));
+const fmt = (n: number | null | undefined, digits = 2) => (n === null || n === undefined ? '—' : Number.isInteger(n) ? String(n) : n.toFixed(digits));
 
 /** Every step of the schedule; only the rows in view are rendered, so a year at 15 minutes scrolls smoothly. */
-export function ScheduleTable({ schedule }: { schedule: Schedule }) {
-  const columns = useMemo(() => columnsFor(schedule), [schedule]);
+export function ScheduleTable({ schedule, spec }: { schedule: Schedule; spec?: SiteSpec }) {
+  const columns = useMemo(() => stepColumns(schedule, spec), [schedule, spec]);
   const parent = useRef<HTMLDivElement>(null);
   const rows = schedule.timestamps.length;
   const virtual = useVirtualizer({ count: rows, getScrollElement: () => parent.current, estimateSize: () => ROW, overscan: 12 });
   const template = `4rem 8rem repeat(${columns.length}, minmax(6.5rem, 1fr))`;
+  // The rows are positioned absolutely, so they cannot widen their container: it is given the columns' least width.
+  const minWidth = `${12 + columns.length * 6.5}rem`;
   return (
     <div className="rounded-lg border border-ash-200 bg-white" role="table" aria-label="Schedule" aria-rowcount={rows + 1}>
       <div ref={parent} className="max-h-[28rem] overflow-auto">
-        <div role="row" className="sticky top-0 z-10 grid min-w-max border-b border-ash-200 bg-ash-50 text-[11px] font-semibold uppercase tracking-wide text-ash-500" style={{ gridTemplateColumns: template }}>
+        <div role="row" className="sticky top-0 z-10 grid items-end border-b border-ash-200 bg-ash-50 text-[11px] font-semibold uppercase tracking-wide text-ash-500" style={{ gridTemplateColumns: template, minWidth }}>
           <span role="columnheader" className="px-2 py-1.5">Step</span>
           <span role="columnheader" className="px-2 py-1.5">Start</span>
           {columns.map((c) => (
-            <span role="columnheader" key={c.key} className="truncate px-2 py-1.5 text-right normal-case" title={c.label}>
+            <span role="columnheader" key={c.key} className="px-2 py-1.5 text-right leading-tight normal-case break-words" title={c.label}>
               {c.label}
             </span>
           ))}
         </div>
-        <div style={{ height: virtual.getTotalSize(), position: 'relative' }} className="min-w-max">
+        <div style={{ height: virtual.getTotalSize(), position: 'relative', minWidth }}>
           {virtual.getVirtualItems().map((item) => (
             <div
               role="row"
@@ -65,8 +42,8 @@ export function ScheduleTable({ schedule }: { schedule: Schedule }) {
               {columns.map((c) => {
                 const v = c.value(item.index);
                 return (
-                  <span role="cell" key={c.key} className={`px-2 py-1 text-right ${c.onOff && v >= 0.5 ? 'font-semibold text-kiln-700' : ''}`}>
-                    {c.onOff ? (v >= 0.5 ? 'on' : 'off') : fmt(v)}
+                  <span role="cell" key={c.key} className={`px-2 py-1 text-right ${c.onOff && v !== null && v >= 0.5 ? 'font-semibold text-kiln-700' : ''}`}>
+                    {c.onOff ? (v !== null && v >= 0.5 ? 'on' : 'off') : fmt(v, c.digits)}
                   </span>
                 );
               })}

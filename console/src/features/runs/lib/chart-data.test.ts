@@ -1,6 +1,6 @@
 import type { Schedule } from '@gridwright/shared/run-result';
 import { describe, expect, it } from 'vitest';
-import { bucketRows, coefficientBars, gridPoints, shortTime, socPoints, supplyPoints, unitPowerPoints, unitStrips } from './chart-data';
+import { bucketRows, coefficientBars, reserveKey, shortTime, supplyPoints, unitPowerPoints, unitStrips } from './chart-data';
 
 // A hand-made 4-step schedule; every expected value below is worked out by hand from it.
 const schedule: Schedule = {
@@ -9,7 +9,7 @@ const schedule: Schedule = {
   curtailedKw: [0, 0, 5, 15],
   unservedKw: [0, 0, 0, 0],
   grid: { importKw: [8, 0, 0, 0], exportKw: [0, 0, 4, 0] },
-  units: { 'ely-1': { on: [0, 1, 1, 0], powerKw: [0, 10, 16, 0] }, 'gen-1': { on: [1, 1, 1, 1], powerKw: [8, 8, 8, 8] } },
+  units: { 'ely-1': { on: [0, 1, 1, 0], powerKw: [0, 10, 16, 0] }, 'gen-1': { on: [1, 1, 1, 1], powerKw: [8, 8, 8, 8], reserveKw: [2, 2, 0, 2] } },
   storage: { 'bess-1': { chargeKw: [0, 0, 0, 0], dischargeKw: [0, 0, 0, 5], socKwh: [50, 50, 50, 44.7] } },
   stores: {},
   reserve: null,
@@ -24,26 +24,6 @@ describe('supplyPoints', () => {
       [25, 20, 5],
       [20, 5, 15],
     ]);
-  });
-});
-
-describe('gridPoints', () => {
-  it('draws export below the axis and never yields -0', () => {
-    const points = gridPoints(schedule);
-    expect(points.map((p) => p.exportKw)).toEqual([0, 0, -4, 0]);
-    expect(Object.is(points[0].exportKw, -0)).toBe(false);
-    expect(points[0].importKw).toBe(8);
-  });
-});
-
-describe('socPoints', () => {
-  it('pairs each step with the storage limits', () => {
-    const points = socPoints(schedule, 'bess-1', { minSocKwh: 10, capacityKwh: 100 });
-    expect(points[3]).toEqual({ step: 3, time: schedule.timestamps[3], socKwh: 44.7, minSocKwh: 10, capacityKwh: 100 });
-  });
-
-  it('defaults the lower limit to zero (SPEC.md §1 default)', () => {
-    expect(socPoints(schedule, 'bess-1', { capacityKwh: 100 })[0].minSocKwh).toBe(0);
   });
 });
 
@@ -67,6 +47,12 @@ describe('unitPowerPoints', () => {
   it('puts every unit in one row per step', () => {
     expect(unitPowerPoints(schedule)[2]).toMatchObject({ step: 2, 'ely-1': 16, 'gen-1': 8 });
   });
+
+  it('adds the reserve a unit holds only for the units the schedule reports it for (SPEC §5: providers only)', () => {
+    const row = unitPowerPoints(schedule)[1];
+    expect(row[reserveKey('gen-1')]).toBe(2);
+    expect(reserveKey('ely-1') in row).toBe(false);
+  });
 });
 
 describe('bucketRows', () => {
@@ -81,6 +67,20 @@ describe('bucketRows', () => {
     expect(out).toHaveLength(2);
     expect(out[0]).toEqual({ step: 0, time: schedule.timestamps[0], availableKw: 5, usedKw: 5, curtailedKw: 0 });
     expect(out[1]).toEqual({ step: 2, time: schedule.timestamps[2], availableKw: 22.5, usedKw: 12.5, curtailedKw: 10 });
+  });
+
+  it('averages only the known values of a series with gaps, and keeps a bucket of gaps a gap', () => {
+    const rows = [
+      { step: 0, time: 'a', price: null, peak: 5 },
+      { step: 1, time: 'b', price: 0.3, peak: null },
+      { step: 2, time: 'c', price: null, peak: null },
+      { step: 3, time: 'd', price: null, peak: null },
+    ];
+    // Buckets {0, 1} and {2, 3}: price (0.3) / 1 known, then none; peak 5 / 1 known, then none.
+    expect(bucketRows(rows, 2)).toEqual([
+      { step: 0, time: 'a', price: 0.3, peak: 5 },
+      { step: 2, time: 'c', price: null, peak: null },
+    ]);
   });
 });
 

@@ -11,22 +11,6 @@ export interface SupplyPoint {
   curtailedKw: number;
 }
 
-export interface GridPoint {
-  step: number;
-  time: string;
-  importKw: number;
-  /** Drawn below the axis, so negative. */
-  exportKw: number;
-}
-
-export interface SocPoint {
-  step: number;
-  time: string;
-  socKwh: number;
-  minSocKwh: number;
-  capacityKwh: number;
-}
-
 export interface UnitStrip {
   id: string;
   /** Runs of equal state, in step order: [fromStep, toStep] inclusive. */
@@ -44,19 +28,21 @@ const round = (n: number, digits = 3) => Math.round(n * 10 ** digits) / 10 ** di
 
 /**
  * Reduces rows to at most `max` by averaging fixed-size buckets of consecutive steps; each bucket
- * keeps its first step and time, so the x axis still reads as time.
+ * keeps its first step and time, so the x axis still reads as time. A value that is null at some
+ * steps (a price not known, a line drawn only over a window) averages its known values, and stays
+ * null in a bucket that has none.
  */
 export function bucketRows<T extends { step: number; time: string }>(rows: T[], max = MAX_CHART_POINTS): T[] {
   if (rows.length <= max) return rows;
   const size = Math.ceil(rows.length / max);
   const out: T[] = [];
   for (let i = 0; i < rows.length; i += size) {
-    const bucket = rows.slice(i, i + size);
+    const bucket = rows.slice(i, i + size) as Record<string, unknown>[];
     const merged: Record<string, unknown> = { ...bucket[0] };
     for (const key of Object.keys(bucket[0])) {
-      if (key === 'step' || typeof bucket[0][key as keyof T] !== 'number') continue;
-      const sum = bucket.reduce((acc, r) => acc + (r[key as keyof T] as number), 0);
-      merged[key] = round(sum / bucket.length);
+      if (key === 'step' || key === 'time') continue;
+      const known = bucket.map((r) => r[key]).filter((v): v is number => typeof v === 'number');
+      if (known.length > 0) merged[key] = round(known.reduce((acc, v) => acc + v, 0) / known.length, 6);
     }
     out.push(merged as T);
   }
@@ -72,26 +58,6 @@ export function supplyPoints(schedule: Schedule): SupplyPoint[] {
   });
 }
 
-export function gridPoints(schedule: Schedule): GridPoint[] {
-  return schedule.timestamps.map((time, step) => ({
-    step,
-    time,
-    importKw: schedule.grid.importKw[step] ?? 0,
-    exportKw: -(schedule.grid.exportKw[step] ?? 0) || 0,
-  }));
-}
-
-export function socPoints(schedule: Schedule, storageId: string, limits: { minSocKwh?: number; capacityKwh: number }): SocPoint[] {
-  const soc = schedule.storage[storageId]?.socKwh ?? [];
-  return schedule.timestamps.map((time, step) => ({
-    step,
-    time,
-    socKwh: soc[step] ?? 0,
-    minSocKwh: limits.minSocKwh ?? 0,
-    capacityKwh: limits.capacityKwh,
-  }));
-}
-
 export function unitStrips(schedule: Schedule): UnitStrip[] {
   return Object.entries(schedule.units).map(([id, unit]) => {
     const segments: UnitStrip['segments'] = [];
@@ -105,11 +71,18 @@ export function unitStrips(schedule: Schedule): UnitStrip[] {
   });
 }
 
+/** The key of a unit's reserve held in a power row: unit ids never contain ":" (SPEC ids are letters, digits, ".", "_", "-"). */
+export const reserveKey = (id: string) => `reserve:${id}`;
+
+/** Each unit's power per step, and the reserve it holds where the schedule reports it (SPEC §5: providers only). */
 export function unitPowerPoints(schedule: Schedule): PowerPoint[] {
-  const ids = Object.keys(schedule.units);
+  const units = Object.entries(schedule.units);
   return schedule.timestamps.map((time, step) => {
     const row: PowerPoint = { step, time };
-    for (const id of ids) row[id] = schedule.units[id].powerKw[step] ?? 0;
+    for (const [id, u] of units) {
+      row[id] = u.powerKw[step] ?? 0;
+      if (u.reserveKw) row[reserveKey(id)] = u.reserveKw[step] ?? 0;
+    }
     return row;
   });
 }

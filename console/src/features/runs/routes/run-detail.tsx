@@ -1,25 +1,18 @@
 import { useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
-import type { RunResult } from '@gridwright/shared/run-result';
-import type { SiteSpec } from '@gridwright/shared/site-spec';
 import { AdvisoryNote } from '@/components/advisory-note';
 import { JsonViewer } from '@/components/json-viewer';
-import { PageHeader, Panel } from '@/components/page-header';
+import { PageHeader } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
 import { EmptyState, Loading } from '@/components/states';
 import { useRun } from '@/lib/queries/runs';
 import { runResult, useRunSpec } from '../api';
+import { DispatchView } from '../components/dispatch-view';
 import { DownloadsPanel } from '../components/downloads-panel';
 import { FormulationReport } from '../components/formulation-report';
-import { GridChart } from '../components/grid-chart';
-import { KpiTiles } from '../components/kpi-tiles';
 import { RunDeliveries } from '../components/run-deliveries';
 import { RunStatusBar } from '../components/run-status-bar';
 import { ScheduleTable } from '../components/schedule-table';
-import { StorageChart } from '../components/storage-chart';
-import { SupplyChart } from '../components/supply-chart';
-import { UnitPowerChart, UnitStrips } from '../components/unit-charts';
-import { WarningsList } from '../components/warnings-list';
 
 const views = [
   { id: 'dispatch', label: 'Dispatch' },
@@ -29,44 +22,6 @@ const views = [
   { id: 'deliveries', label: 'Webhook deliveries' },
 ] as const;
 type View = (typeof views)[number]['id'];
-
-function DispatchView({
-  result,
-  elapsedSeconds,
-  spec,
-  onPointer,
-}: {
-  result: RunResult;
-  elapsedSeconds: number | null | undefined;
-  spec: SiteSpec | undefined;
-  onPointer: (p: string) => void;
-}) {
-  const schedule = result.schedule;
-  return (
-    <div className="space-y-3">
-      <KpiTiles result={result} elapsedSeconds={elapsedSeconds} />
-      <Panel title={`Warnings and diagnosis (${result.warnings.length})`}>
-        <WarningsList warnings={result.warnings} onPointer={onPointer} />
-      </Panel>
-      {schedule ? (
-        <>
-          <AdvisoryNote />
-          <div className="grid gap-3 xl:grid-cols-2" data-testid="dispatch-charts">
-            <SupplyChart schedule={schedule} />
-            {(spec?.grid || schedule.grid.importKw.some((v) => v > 0) || schedule.grid.exportKw.some((v) => v > 0)) && <GridChart schedule={schedule} />}
-            <UnitStrips schedule={schedule} />
-            <UnitPowerChart schedule={schedule} />
-            {(spec?.storage ?? []).map((s) => (
-              <StorageChart key={s.id} schedule={schedule} storage={s} />
-            ))}
-          </div>
-        </>
-      ) : (
-        <EmptyState title="No schedule">The solver returned {result.outcome}: see the warnings above for what conflicts.</EmptyState>
-      )}
-    </div>
-  );
-}
 
 export function RunDetailRoute() {
   const { runId = '' } = useParams();
@@ -128,13 +83,13 @@ export function RunDetailRoute() {
           result.schedule ? (
             <div className="space-y-2">
               <AdvisoryNote />
-              <ScheduleTable schedule={result.schedule} />
+              <ScheduleTable schedule={result.schedule} spec={spec.data} />
             </div>
           ) : (
             <EmptyState title="No schedule for this outcome" />
           )
         ) : (
-          <FormulationReport model={result.model} />
+          <FormulationReport model={result.model} spec={spec.data} />
         )}
       </div>
     </div>

@@ -13,6 +13,7 @@ import { CodePanel } from '../components/code-panel';
 import { FollowedRun } from '../components/followed-run';
 import { SeriesUpload } from '../components/series-upload';
 import { SpecEditor } from '../components/spec-editor';
+import { UnitCurvesPanel } from '../components/unit-curves-panel';
 import { formatSpec } from '../lib/format-spec';
 import type { PointerIssue } from '../lib/spec-diagnostics';
 
@@ -114,6 +115,9 @@ export function WorkbenchRoute() {
               <ProblemAlert error={submit.error} />
               {runId && <FollowedRun runId={runId} />}
             </div>
+          </Panel>
+          <Panel title="Unit price curves">
+            <UnitCurvesPanel spec={parsed.value} />
           </Panel>
           {canUpload && (
             <Panel title="Supply from a CSV">

@@ -1,0 +1,14 @@
+import { chartColors } from '@/lib/chart-colors';
+import { formatNumber } from '@/lib/format';
+
+export const axisProps = { tick: { fontSize: 11, fill: '#6b6761' }, tickLine: false, axisLine: { stroke: chartColors.greyLight } };
+
+export const legendProps = { wrapperStyle: { fontSize: 11 } };
+
+const compact = new Intl.NumberFormat('en-GB', { notation: 'compact', maximumSignificantDigits: 3 });
+
+/** Axis ticks that fit a narrow axis whatever the magnitude: 250, 1.2K, 0.291. */
+export const compactNumber = (v: unknown) => (typeof v === 'number' && Number.isFinite(v) ? compact.format(v) : String(v));
+
+/** A tooltip formatter that names the unit beside every value, e.g. "12.5 kW"; null reads "no value". */
+export const withUnit = (unit: string, digits = 3) => (v: unknown) => (v === null || v === undefined ? 'no value' : `${formatNumber(Number(v), digits)} ${unit}`);
