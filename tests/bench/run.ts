@@ -25,7 +25,7 @@ import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/
 import { apiReadsSection } from './api-reads';
 import { islandYearSection } from './island-year';
 import { queueThroughputSection } from './queue-throughput';
-import { rollingBoundSection, type BenchSection, type SectionRow } from './rolling-bound';
+import { resultRow, rollingBoundSection, type BenchSection, type SectionRow } from './rolling-bound';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
 import { storeValuationSection } from './store-valuation';
 
@@ -60,17 +60,7 @@ function checked(spec: ResolvedSiteSpec, r: SiteSolution): SiteSolution {
 }
 
 function engineRow(section: string, variant: string, r: SiteSolution, wallS: number, note: string): Row {
-  return {
-    section,
-    variant,
-    binaries: r.model.binaries,
-    nonzeros: r.model.nonzeros,
-    buildS: r.model.buildSeconds,
-    solveS: r.model.solveSeconds,
-    wallS,
-    objective: r.objective.value,
-    note: `${r.outcome}${note ? `; ${note}` : ''}`,
-  };
+  return { section, ...resultRow(variant, r, wallS, note) };
 }
 
 /** Solves, checks the schedule, and measures the wall time from the call to the verified result. */
