@@ -28,8 +28,13 @@ const objectiveSchema = z.object({
     .number()
     .nullable()
     .meta({ description: 'The SPEC.md §2 objective evaluated on the returned schedule; null when there is no schedule.' }),
-  bound: z.number().nullable().meta({ description: "The solver's dual bound (monolithic only); null when unknown." }),
-  gap: z.number().nullable().meta({ description: 'Relative MIP gap; null when unknown.' }),
+  bound: z.number().nullable().meta({
+    description:
+      'A proven upper bound on the objective of any schedule the spec allows: the solver’s dual bound when one model covers ' +
+      'the horizon; for a rolling solve, the horizon bound of `model.horizonBound` (a decomposition of the horizon into ' +
+      'blocks whose links are relaxed and priced). null when unknown.',
+  }),
+  gap: z.number().nullable().meta({ description: 'Relative gap |bound − value| / |value|; null when the bound is unknown.' }),
 });
 export type ObjectiveReport = z.infer<typeof objectiveSchema>;
 
@@ -224,6 +229,16 @@ const modelReportSchema = z
     solveSeconds: z
       .number()
       .meta({ description: 'Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time.' }),
+    horizonBound: z
+      .object({
+        blocks: count.meta({ description: 'Blocks of the horizon, each solved as one LP with its links to the others relaxed and priced.' }),
+        solveSeconds: z.number().meta({ description: 'Solver time summed over the blocks.' }),
+        bound: z.number().nullable().meta({ description: 'The proven bound, as in `objective.bound`.' }),
+        gap: z.number().nullable().meta({ description: 'The proven gap, as in `objective.gap`.' }),
+        reason: z.string().nullable().meta({ description: 'Why `objective.bound` is null (the time limit ran out, a block not solved); null when it is known.' }),
+      })
+      .nullable()
+      .meta({ description: 'How a rolling solve’s `objective.bound` was proven; null for a single model, which has its solver’s bound.' }),
     solver: z.object({ name: z.string(), version: z.string() }),
   })
   .meta({

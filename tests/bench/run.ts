@@ -4,15 +4,17 @@
  * and only prints.
  *
  * Sections: each formulation reduction on vs off; monolithic vs rolling horizon and a rolling
- * 15-minute year; HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
+ * 15-minute year; the proven bound of rolling solves (`rolling-bound.ts`); the island year with
+ * fuel deliveries (`island-year.ts`); how rolling windows value stored product
+ * (`store-valuation.ts`); HiGHS (the engine) vs GLPK (glpk.js on the plain formulation); the RSS of one
  * solver worker over many consecutive small solves; how fast one worker process drains the run
  * queue against the bound its solves set (`queue-throughput.ts`); API reads against a bare
  * Express route (`api-reads.ts`), both on a throwaway PostgreSQL; the warm engine against Debian's
  * CBC on day-ahead sites, the demo sites and the 10-unit system (`engine-vs-cbc.ts`); and the CLI's
  * fixed cost (`cli-startup.ts`).
  *
- * `--only=<section>,…` runs just those sections (reductions, rolling, solvers, memory, queue,
- * api-reads, day-ahead, demo-sites, cli) and only prints.
+ * `--only=<section>,…` runs just those sections (reductions, rolling, solvers, rolling-bound,
+ * island-year, store-valuation, memory, queue, api-reads, day-ahead, demo-sites, cli) and only prints.
  */
 import { execFileSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
@@ -28,23 +30,19 @@ import { ALL_REDUCTIONS_OFF, ALL_REDUCTIONS_ON, monolithic } from '../reference/
 import { apiReadsSection } from './api-reads';
 import { cliSection } from './cli-startup';
 import { dayAheadSection, demoSitesSection } from './engine-vs-cbc';
+import { islandYearSection } from './island-year';
 import { queueThroughputSection } from './queue-throughput';
+import { resultRow, rollingBoundSection, type BenchSection, type SectionRow } from './rolling-bound';
 import { gridTiedSite, smallSite, solarOnlySite, solarWeekSite } from './sites';
+import { storeValuationSection } from './store-valuation';
 
 const quick = process.argv.includes('--quick');
 const only = process.argv.find((a) => a.startsWith('--only='))?.slice('--only='.length).split(',');
 const wanted = (section: string) => !only || only.includes(section);
 
-interface Row {
+/** A row of the table: a section's row (rolling-bound.ts) with the section it belongs to. */
+interface Row extends SectionRow {
   section: string;
-  variant: string;
-  binaries?: number;
-  nonzeros?: number;
-  buildS?: number;
-  solveS?: number;
-  wallS?: number;
-  objective?: number | null;
-  note: string;
 }
 
 /** The solver every section shares, as one worker process shares its threads among its runs. */
@@ -71,17 +69,7 @@ function checked(spec: ResolvedSiteSpec, r: SiteSolution): SiteSolution {
 }
 
 function engineRow(section: string, variant: string, r: SiteSolution, wallS: number, note: string): Row {
-  return {
-    section,
-    variant,
-    binaries: r.model.binaries,
-    nonzeros: r.model.nonzeros,
-    buildS: r.model.buildSeconds,
-    solveS: r.model.solveSeconds,
-    wallS,
-    objective: r.objective.value,
-    note: `${r.outcome}${note ? `; ${note}` : ''}`,
-  };
+  return { section, ...resultRow(variant, r, wallS, note) };
 }
 
 /** Solves, checks the schedule, and measures the wall time from the call to the verified result. */
@@ -269,21 +257,9 @@ async function apiReads(): Promise<void> {
   summary.push(...result.summary);
 }
 
-async function engineVsCbc(): Promise<void> {
-  const dayAhead = await dayAheadSection({ quick, log, solver });
-  for (const row of dayAhead.rows) rows.push({ section: 'Day-ahead: warm engine vs Debian CBC 2.10 on the plain formulation', ...row });
-  summary.push(...dayAhead.summary);
-}
-
-async function demoSites(): Promise<void> {
-  const demo = await demoSitesSection({ quick, log, solver });
-  for (const row of demo.rows) rows.push({ section: 'Demo sites and 10-unit system: engine vs Debian CBC 2.10', ...row });
-  summary.push(...demo.summary);
-}
-
-function cli(): void {
-  const result = cliSection({ quick, log });
-  for (const row of result.rows) rows.push({ section: 'CLI fixed cost: one-step spec, whole process', ...row });
+/** A section kept in its own file: its rows and summary lines, as they are. */
+function addSection(result: BenchSection): void {
+  for (const row of result.rows) rows.push({ section: result.section, ...row });
   summary.push(...result.summary);
 }
 
@@ -318,12 +294,15 @@ async function main(): Promise<void> {
   if (wanted('reductions')) await reductionsSection();
   if (wanted('rolling')) await rollingSection();
   if (wanted('solvers')) await solverSection();
+  if (wanted('rolling-bound')) addSection(await rollingBoundSection({ solver, quick, log }));
+  if (wanted('island-year')) addSection(await islandYearSection({ solver, quick, log }));
+  if (wanted('store-valuation')) addSection(await storeValuationSection({ solver, quick, log }));
   if (wanted('memory')) await memorySection();
   if (wanted('queue')) await queueSection();
   if (wanted('api-reads')) await apiReads();
-  if (wanted('day-ahead')) await engineVsCbc();
-  if (wanted('demo-sites')) await demoSites();
-  if (wanted('cli')) cli();
+  if (wanted('day-ahead')) addSection({ section: 'Day-ahead: warm engine vs Debian CBC 2.10 on the plain formulation', ...(await dayAheadSection({ quick, log, solver })) });
+  if (wanted('demo-sites')) addSection({ section: 'Demo sites and 10-unit system: engine vs Debian CBC 2.10', ...(await demoSitesSection({ quick, log, solver })) });
+  if (wanted('cli')) addSection({ section: 'CLI fixed cost: one-step spec, whole process', ...cliSection({ quick, log }) });
   const seconds = (performance.now() - started) / 1000;
   const md = [
     '# Gridwright benchmark results',

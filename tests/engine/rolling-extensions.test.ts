@@ -1,10 +1,9 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import { exampleSites } from '@gridwright/shared/examples';
 import { rollingSegments } from '../../api/src/engine/horizon-windows';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
-import { resolve } from './synthetic-sites';
+import { repeatedExample, resolve } from './synthetic-sites';
 
 // SPEC §5, rolling horizon: ramps, hot/cold history, store levels and the demand-charge peaks
 // reached so far carry across windows like SOC and on/off state. Every schedule below has also
@@ -20,22 +19,7 @@ const rolling = (spec: ResolvedSiteSpec, window: Partial<ResolvedSiteSpec['solve
 const monolithic = (spec: ResolvedSiteSpec): ResolvedSiteSpec => ({ ...spec, solver: { ...spec.solver, mode: 'monolithic' } });
 
 /** A demo site repeated `times` over, every per-step series repeated with it. */
-function repeated(id: string, times: number): ResolvedSiteSpec {
-  const spec = structuredClone(exampleSites.find((e) => e.id === id)!.spec) as any;
-  const T = spec.horizon.steps;
-  const rep = (a: unknown) => (Array.isArray(a) ? Array.from({ length: T * times }, (_, t) => a[t % T]) : a);
-  spec.horizon.steps = T * times;
-  spec.supply.availableKw = rep(spec.supply.availableKw);
-  if (spec.siteLoad) spec.siteLoad.kw = rep(spec.siteLoad.kw);
-  if (spec.grid) {
-    spec.grid.importPrice = rep(spec.grid.importPrice);
-    spec.grid.exportPrice = rep(spec.grid.exportPrice);
-  }
-  if (spec.reserve) spec.reserve.upKw = rep(spec.reserve.upKw);
-  for (const s of spec.stores ?? []) s.demandPerHour = rep(s.demandPerHour);
-  spec.solver = { timeLimitSeconds: 300 };
-  return resolve(spec);
-}
+const repeated = (id: string, times: number): ResolvedSiteSpec => repeatedExample(id, times, { timeLimitSeconds: 300 });
 
 describe('rolling windows carry the v1.1 state', () => {
   it('ramps across a seam: a generator follows a hard island load up and down over window boundaries', async () => {

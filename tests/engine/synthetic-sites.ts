@@ -1,4 +1,5 @@
 import { resolveDefaults, validateSiteSpec, type ResolvedSiteSpec } from '@gridwright/shared/site-spec';
+import { exampleSites } from '@gridwright/shared/examples';
 
 /** A small deterministic pseudo-random sequence (LCG), so synthetic sites are the same on every run. */
 export function seededRandom(seed: number): () => number {
@@ -74,4 +75,25 @@ export function solarThreeUnitSite(opts: { days: number; stepMinutes: 15 | 60; s
     ],
     storage: [],
   };
+}
+
+/** A demo site (shared/examples) over `days` days: every per-step series repeated, with the given solver settings. */
+export function repeatedExample(id: string, days: number, solver: Record<string, unknown>): ResolvedSiteSpec {
+  const spec = structuredClone(exampleSites.find((e) => e.id === id)!.spec) as any;
+  const T = spec.horizon.steps;
+  const rep = (a: unknown) => (Array.isArray(a) ? Array.from({ length: T * days }, (_, t) => a[t % T]) : a);
+  spec.horizon.steps = T * days;
+  spec.supply.availableKw = rep(spec.supply.availableKw);
+  if (spec.siteLoad) spec.siteLoad.kw = rep(spec.siteLoad.kw);
+  if (spec.grid) {
+    spec.grid.importPrice = rep(spec.grid.importPrice);
+    spec.grid.exportPrice = rep(spec.grid.exportPrice);
+  }
+  if (spec.reserve) spec.reserve.upKw = rep(spec.reserve.upKw);
+  for (const s of spec.stores ?? []) {
+    s.demandPerHour = rep(s.demandPerHour);
+    s.inflowPerHour = rep(s.inflowPerHour);
+  }
+  spec.solver = solver;
+  return resolve(spec);
 }

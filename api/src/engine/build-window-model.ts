@@ -28,10 +28,11 @@ export interface WindowColumns {
   peaks: Int32Array;
 }
 
-/** Row index per local step of the rows whose duals price energy and product. */
+/** Row index per local step of the rows whose duals price energy, stored energy and product. */
 export interface WindowRows {
   balance: Int32Array;
   stores: Int32Array[];
+  storage: Int32Array[];
 }
 
 export interface BigMEntry {
@@ -81,7 +82,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     reserveShortfall: filled(n),
     peaks: filled(spec.grid.demandCharges.length),
   };
-  const rows: WindowRows = { balance: filled(n), stores: spec.stores.map(() => filled(n)) };
+  const rows: WindowRows = { balance: filled(n), stores: spec.stores.map(() => filled(n)), storage: spec.storage.map(() => filled(n)) };
   const penalty = spec.siteLoad.unservedPenaltyPerKwh;
   const reservePenalty = spec.reserve?.shortfallPenaltyPerKwh ?? null;
   const widths = spec.units.map(sliceWidths);
@@ -176,8 +177,9 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     if (!dp.steps.length) return;
     // −price·(peak − peak so far): the peak so far is paid already, so it is a constant here.
     const D = scales.demandPeakKw;
-    cols.peaks[c] = a.col(ColKind.DemandPeak, dp.steps[0], c, (-charge.pricePerKw * D) / M, dp.floorKw / D, dp.capKw / D);
-    a.objectiveOffset += (charge.pricePerKw * dp.floorKw) / M;
+    const price = charge.pricePerKw * dp.share;
+    cols.peaks[c] = a.col(ColKind.DemandPeak, dp.steps[0], c, (-price * D) / M, dp.floorKw / D, dp.capKw / D);
+    a.objectiveOffset += (price * dp.floorKw) / M;
   });
 
   for (let k = 0; k < n; k++) {
@@ -199,10 +201,13 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
   spec.storage.forEach((s, i) => {
     const c = cols.storage[i];
     const sp = plan.storage[i];
+    // A bound block's SOC before its first step is free within the SOC limits, at a price.
+    const freeStart = sp.startPricePerKwh === null ? -1 : a.col(ColKind.StorageStartSoc, 0, i, (-sp.startPricePerKwh * P) / M, s.minSocKwh / P, s.capacityKwh / P);
     for (let k = 0; k < n; k++) {
       // soc_k − soc_{k−1} − Δh·ηc·c_k + Δh/ηd·d_k = 0, with soc_{−1} the window's starting SOC.
-      const rhs = k === 0 ? start.socKwh[i] / P : 0;
-      a.row(RowKind.StorageSoc, k, i, rhs, rhs);
+      const rhs = k === 0 && freeStart < 0 ? start.socKwh[i] / P : 0;
+      rows.storage[i][k] = a.row(RowKind.StorageSoc, k, i, rhs, rhs);
+      if (k === 0) a.entry(freeStart, -1);
       if (k > 0) a.entry(c.soc[k - 1], -1);
       a.entry(c.soc[k], 1);
       a.entry(c.charge[k], -dh * s.chargeEfficiency);
@@ -279,11 +284,15 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
     const c = cols.stores[j];
     const keep = 1 - s.lossPerHour * dh;
     const flow = (dh * P) / Q;
+    const startPrice = plan.stores[j].startPricePerUnit;
+    const freeStart = startPrice === null ? -1 : a.col(ColKind.StoreStartLevel, 0, j, (-startPrice * Q) / M, s.min / Q, s.capacity / Q);
     for (let k = 0; k < n; k++) {
       // level_k − keep·level_{k−1} − Δh·(produced − consumed + short − spill) = Δh·(inflow_k − demand_k) (store units / Q).
       const t = window.from + k;
-      const rhs = (dh * (s.inflowPerHour[t] - s.demandPerHour[t])) / Q + (k === 0 ? (keep * start.storeLevels[j]) / Q : 0);
+      const fixedStart = k === 0 && freeStart < 0 ? (keep * start.storeLevels[j]) / Q : 0;
+      const rhs = (dh * (s.inflowPerHour[t] - s.demandPerHour[t])) / Q + fixedStart;
       rows.stores[j][k] = a.row(RowKind.StoreLevel, k, j, rhs, rhs);
+      if (k === 0) a.entry(freeStart, -keep);
       a.entry(c.level[k], 1);
       if (k > 0) a.entry(c.level[k - 1], -keep);
       spec.units.forEach((u, i) => {

@@ -63,6 +63,9 @@ export enum ColKind {
   StoreLevel,
   StoreShortfall,
   StoreSpill,
+  /** A bound block's free state before its first step (horizon-bound.ts). */
+  StorageStartSoc,
+  StoreStartLevel,
 }
 
 /** Per row and per column: kind, local step and the index of the unit, storage, store or demand charge (−1 for none). */

@@ -43,6 +43,15 @@ export const GAP_ZERO_GUARD = 1e-10;
 export const VERIFY_RELATIVE_TOLERANCE = 1e-6;
 export const VERIFY_ABSOLUTE_TOLERANCE_PER_SCALE = 1e-7;
 
+/**
+ * Added to each LP optimum of the horizon bound (horizon-bound.ts), relative to its magnitude
+ * (at least 1 money unit): a simplex optimum is exact only to the solver's feasibility and
+ * optimality tolerances (1e-7 in scaled units, SOLVER_FEASIBILITY_TOLERANCE), so a bound taken
+ * at face value could sit a hair below the true optimum. Ten times the verifier's relative
+ * tolerance: our choice, wide enough for every tolerance and far below any gap worth reporting.
+ */
+export const LP_BOUND_MARGIN = 1e-5;
+
 /** A rolling segment meets the seam its successor starts from when each SOC agrees within this share of capacity. */
 export const SEAM_SOC_TOLERANCE = 1e-6;
 

@@ -2,7 +2,7 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { chooseScales, type Scales } from './choose-scales';
 import { demandChargeSteps } from './demand-charge-steps';
 import { storeLevelFloors } from './store-floors';
-import { islandEnergyValue, lookaheadEnergyValue, storeProductValues } from './terminal-values';
+import { islandEnergyValue, lookaheadEnergyValue, medianEnergyStoreValue, storeProductValues, type StoreValuation } from './terminal-values';
 import { TINY } from './numerics';
 import { ratingSums, storageStepLimits } from './site-ratings';
 
@@ -14,6 +14,29 @@ export interface HorizonWindow {
   isFinal: boolean;
   /** The state the window must end in: where the next parallel segment of a rolling solve starts. */
   endState?: WindowEndState;
+  /** Set on a block of the horizon bound (horizon-bound.ts): its links to the blocks around it, relaxed and priced. */
+  links?: BlockLinks;
+}
+
+/** Money per unit of state where two blocks of the horizon bound meet. */
+export interface LinkPrices {
+  socPerKwh: number[];
+  storePerUnit: number[];
+}
+
+/**
+ * A block of the horizon bound: solved as an LP, its start state free (priced at `start`) and its
+ * end state sold at `end`, each demand charge paid on its own peak at a share of the price.
+ */
+export interface BlockLinks {
+  /** Null: the horizon's first block, which starts from the spec's initial state. */
+  start: LinkPrices | null;
+  /** Null: the horizon's last block, which meets the final targets. */
+  end: LinkPrices | null;
+  /** Per demand charge, the share of its price this block pays (the shares of a charge sum to 1). */
+  peakShares: number[];
+  /** Whether the block keeps its binaries (a MIP whose dual bound counts) or is an LP relaxation. */
+  integral: boolean;
 }
 
 /** A state fixed at a window's end: each storage's SOC and store's level, each unit's last on/off values and output. */
@@ -79,6 +102,8 @@ export interface StoragePlan {
   endSocFixedKwh: number | null;
   /** Money per kWh credited for energy left above minSoc at the end of a non-final window. */
   terminalValuePerKwh: number;
+  /** A bound block's free start SOC costs this per kWh; null: the start SOC is the start state's. */
+  startPricePerKwh: number | null;
   /** 1 where the battery holds spinning reserve. */
   reserve: Uint8Array;
 }
@@ -92,6 +117,8 @@ export interface StorePlan {
   endFixed: number | null;
   /** Money per unit credited for product left at the end of a non-final window. */
   terminalValuePerUnit: number;
+  /** A bound block's free start level costs this per unit; null: the start level is the start state's. */
+  startPricePerUnit: number | null;
 }
 
 export interface DemandChargePlan {
@@ -100,6 +127,8 @@ export interface DemandChargePlan {
   /** The peak reached so far (the charge's floor here) and the most the peak can reach in the window. */
   floorKw: number;
   capKw: number;
+  /** The share of the charge's price this window pays: 1, or a bound block's share. */
+  share: number;
 }
 
 export interface GridPlan {
@@ -165,9 +194,11 @@ export interface SiteFacts {
   storeFloors: Float64Array[];
   /** Per store, what a unit of its product left at a non-final window's end is credited at (storeProductValues). */
   storeValues: number[];
+  /** How product left at a non-final window's end is valued ('water-value' in every run: storeValues). */
+  storeValuation: StoreValuation;
 }
 
-export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
+export function siteFacts(spec: ResolvedSiteSpec, storeValuation: StoreValuation = 'water-value'): SiteFacts {
   const island = spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0;
   return {
     scales: chooseScales(spec, spec.solver.reductions.scaling),
@@ -176,6 +207,7 @@ export function siteFacts(spec: ResolvedSiteSpec): SiteFacts {
     chargeSteps: demandChargeSteps(spec),
     storeFloors: storeLevelFloors(spec),
     storeValues: storeProductValues(spec, island),
+    storeValuation,
   };
 }
 
@@ -199,13 +231,15 @@ export function planWindow(
   const { reductions } = spec.solver;
   const n = window.steps;
   const dh = spec.horizon.stepMinutes / 60;
-  const { scales, loose, island, chargeSteps, storeFloors, storeValues } = facts;
+  const { scales, loose, island, chargeSteps, storeFloors } = facts;
   const hardLoad = spec.siteLoad.unservedPenaltyPerKwh === null;
   const { importLimitKw, exportLimitKw } = spec.grid;
   const limits = storageStepLimits(spec, dh);
   // Relax-and-fix: the lookahead only values the state the kept steps leave, so its LP
   // relaxation serves, and the MIP is left with the decisions that are actually kept.
-  const integerSteps = window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
+  const links = window.links;
+  const integerSteps = links ? (links.integral ? n : 0) : window.isFinal || spec.solver.window.lookahead === 'integer' ? n : Math.min(n, window.commit);
+  const freeStart = links !== undefined && links.start !== null;
 
   const sums = ratingSums(spec, limits);
 
@@ -289,7 +323,8 @@ export function planWindow(
       }
     }
     const noStart = new Uint8Array(n);
-    noStart.fill(1, 0, Math.min(n, initial.on ? u.minDownSteps : mustStayOff));
+    // A free start may have stopped the unit long before: it may start at once.
+    if (!freeStart) noStart.fill(1, 0, Math.min(n, initial.on ? u.minDownSteps : mustStayOff));
     let nextPruned = Infinity;
     for (let k = n - 1; k >= 0; k--) {
       if (nextPruned - k < u.minUpSteps) noStart[k] = 1;
@@ -357,7 +392,8 @@ export function planWindow(
       // Non-final windows credit stored energy at what it would fetch later (discharge losses
       // included), so they neither drain storage at their end nor hoard energy worth less
       // than it cost. The final window has no later, and a fixed end SOC leaves nothing to value.
-      terminalValuePerKwh: credits ? energyValue * s.dischargeEfficiency : 0,
+      terminalValuePerKwh: links ? (links.end?.socPerKwh[i] ?? 0) : credits ? energyValue * s.dischargeEfficiency : 0,
+      startPricePerKwh: links?.start ? links.start.socPerKwh[i] : null,
       reserve,
     };
   });
@@ -367,7 +403,8 @@ export function planWindow(
     scale: scales.stores[j],
     endFloor: Math.min(s.capacity, storeFloors[j][lastStep]),
     endFixed: window.endState ? window.endState.storeLevels[j] : null,
-    terminalValuePerUnit: credits ? storeValues[j] : 0,
+    terminalValuePerUnit: links ? (links.end?.storePerUnit[j] ?? 0) : credits ? creditedStoreValue(spec, facts, j, energyValue) : 0,
+    startPricePerUnit: links?.start ? links.start.storePerUnit[j] : null,
   }));
 
   const demandCharges: DemandChargePlan[] = spec.grid.demandCharges.map((_, c) => {
@@ -378,13 +415,19 @@ export function planWindow(
       steps.push(k);
       cap = Math.max(cap, grid.importUb[k]);
     }
-    return { steps, floorKw: start.peaksKw[c], capKw: cap };
+    return { steps, floorKw: start.peaksKw[c], capKw: cap, share: links ? links.peakShares[c] : 1 };
   });
 
   const supplyOnlyCap = new Uint8Array(n);
   if (anySupplyOnly) for (let k = 0; k < n; k++) supplyOnlyCap[k] = grid.importUb[k] > 0 ? 1 : 0;
 
   return { spec, facts, window, start, scales, dh, units, storage, stores, demandCharges, reserveKw, supplyOnlyCap, grid, binariesBefore, integerSteps };
+}
+
+/** What a non-final window credits a unit of store `j`'s product at, by the solve's store valuation. */
+function creditedStoreValue(spec: ResolvedSiteSpec, facts: SiteFacts, j: number, energyValue: number): number {
+  if (facts.storeValuation === 'none') return 0;
+  return facts.storeValuation === 'water-value' ? facts.storeValues[j] : medianEnergyStoreValue(spec, j, energyValue);
 }
 
 /** A unit's ramp limits in kW per step, with the start and stop allowances of SPEC §5; null without any. */

@@ -62,6 +62,9 @@ export async function priceWindow(
     plan.spec.stores.forEach((_, j) => {
       out.storeValue[j][t] = (duals[model.rows.stores[j][k]] * scales.money) / plan.stores[j].scale + 0;
     });
+    plan.spec.storage.forEach((_, i) => {
+      out.socValue[i][t] = (duals[model.rows.storage[i][k]] * scales.money) / scales.powerKw + 0;
+    });
   }
   return { workerSeconds: res.workerSeconds };
 }

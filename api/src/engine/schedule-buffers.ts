@@ -16,6 +16,8 @@ export interface ScheduleBuffers {
   /** Marginal values per step (NaN where unknown): money per kWh, and per store unit. */
   energyValue: Float64Array;
   storeValue: Float64Array[];
+  /** Per storage, what one more kWh in it after each step is worth (the dual of its SOC row; NaN where unknown): the horizon bound's link prices. */
+  socValue: Float64Array[];
 }
 
 export function createScheduleBuffers(spec: ResolvedSiteSpec): ScheduleBuffers {
@@ -30,6 +32,7 @@ export function createScheduleBuffers(spec: ResolvedSiteSpec): ScheduleBuffers {
     stores: spec.stores.map(() => ({ level: new Float64Array(T), shortfall: new Float64Array(T), spill: new Float64Array(T) })),
     energyValue: new Float64Array(T).fill(NaN),
     storeValue: spec.stores.map(() => new Float64Array(T).fill(NaN)),
+    socValue: spec.storage.map(() => new Float64Array(T).fill(NaN)),
   };
 }
 

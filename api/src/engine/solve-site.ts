@@ -14,8 +14,11 @@ import { createScheduleBuffers, toSchedule } from './schedule-buffers';
 import { scheduleKpis } from './schedule-kpis';
 import { SolveBudget } from './solve-budget';
 import { solveRolling, type HorizonSolve } from './solve-rolling';
+import { BOUND_TIME_SHARE, horizonBound } from './horizon-bound';
+import { relativeGap } from './solve-in-blocks';
 import { failedRecord, solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
 import { specWarnings } from './spec-warnings';
+import type { StoreValuation } from './terminal-values';
 import type { SolverIdentity, SolverPort } from './solver-port';
 import { verifySchedule } from './verify-schedule';
 
@@ -32,6 +35,8 @@ export interface SolveOptions {
   onProgress?: (p: { windowsDone: number; windowsTotal: number }) => void;
   /** The solver's log lines. */
   onLog?: (line: string) => void;
+  /** How rolling windows value product left in a store; runs use the default 'water-value' (terminal-values.ts). */
+  storeValuation?: StoreValuation;
 }
 
 /** The engine produced a schedule that its independent verifier rejects: an engine bug, never a result. */
@@ -64,6 +69,7 @@ function emptyReport(mode: 'monolithic' | 'rolling', spec: ResolvedSiteSpec, sol
     scale: { powerKw: 1, money: 1, stores: Object.fromEntries(spec.stores.map((s) => [s.id, 1])), demandPeakKw: 1 },
     buildSeconds: 0,
     solveSeconds: 0,
+    horizonBound: null,
     solver: { name: solver.name, version: solver.version },
   };
 }
@@ -171,6 +177,7 @@ function failureWarnings(spec: ResolvedSiteSpec, failed: WindowRecord): ResultWa
  */
 export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Promise<SiteSolution> {
   const { solver } = opts;
+  const startedMs = performance.now();
   const identity = await solver.describe();
   const deadline = opts.deadline ?? Deadline.after(spec.solver.timeLimitSeconds);
   const mode = chooseSolveMode(spec);
@@ -191,7 +198,7 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Pro
   const windowsPlanned = segments ? segments.reduce((n, s) => n + s.windows.length, 0) + segments.length - 1 : 1;
   const budget = new SolveBudget(deadline, windowsPlanned, segments ? Math.min(solver.concurrency, segments.length) : 1, opts.onProgress);
   const buffers = createScheduleBuffers(spec);
-  const ctx: SolveContext = { spec, facts: siteFacts(spec), buffers, solver, budget, signal: opts.signal, onLog: opts.onLog };
+  const ctx: SolveContext = { spec, facts: siteFacts(spec, opts.storeValuation), buffers, solver, budget, signal: opts.signal, onLog: opts.onLog };
   let solved: HorizonSolve;
   if (segments) solved = await solveRolling(ctx, segments);
   else {
@@ -215,16 +222,30 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Pro
       { code: 'objective-mismatch', message: `the schedule's objective is ${value}; recomputed independently it is ${check.objective}` },
     ]);
   }
-  // A schedule stitched from windows is feasible, never proved optimal for the whole horizon.
+  // A schedule stitched from windows is feasible, never proved optimal for the whole horizon;
+  // its bound comes from the decomposition of horizon-bound.ts, in the time the run has left.
   const whole = solved.records.length === 1 && solved.records[0].window.steps === spec.horizon.steps;
   const single = whole ? solved.records[0].result : null;
+  let bound = single ? single.bound : null;
+  let gap = single ? single.gap : null;
+  if (!whole) {
+    const scheduleSeconds = (performance.now() - startedMs) / 1000;
+    const proven = await horizonBound({ spec, facts: ctx.facts, schedule: buffers, solver, deadline, signal: opts.signal }, BOUND_TIME_SHARE * scheduleSeconds);
+    report.solveSeconds += proven.solveSeconds;
+    // Below the schedule's own objective the bound cannot be right: it is withheld, never shown.
+    const reason = proven.value === null ? proven.reason : proven.value < value ? `the bound came out ${proven.value}, below the schedule's objective` : null;
+    if (reason === null) {
+      bound = proven.value;
+      gap = relativeGap(value, proven.value!);
+    }
+    report.horizonBound = { blocks: proven.blocks, solveSeconds: proven.solveSeconds, bound, gap, reason };
+    if (reason !== null) {
+      warnings.push({ code: 'bound-unavailable', message: `No bound on the whole horizon: ${reason}.` });
+    }
+  }
   return {
     outcome: single?.outcome === 'optimal' ? 'optimal' : 'feasible',
-    objective: {
-      value,
-      bound: single ? single.bound : null,
-      gap: single ? single.gap : null,
-    },
+    objective: { value, bound, gap },
     kpis: scheduleKpis(spec, ctx.facts.chargeSteps, buffers, terms),
     schedule,
     model: report,

@@ -113,3 +113,24 @@ export function storeProductValues(spec: ResolvedSiteSpec, island: number): numb
     return penalty === null ? value : Math.min(value, penalty);
   });
 }
+
+/**
+ * How a non-final window values product left in a store: the merit-order water value of the whole
+ * horizon (storeProductValues, what runs use), the window's median energy value turned into product
+ * as for batteries (medianEnergyStoreValue), or nothing. The alternatives exist for the design
+ * benchmark that compares them (tests/bench/store-valuation.ts).
+ */
+export type StoreValuation = 'water-value' | 'median-energy' | 'none';
+
+/**
+ * A unit of product valued like stored energy: the window's median energy value (what a battery's
+ * energy is credited at) per unit — over the best yield of the store's producers, or, for a store
+ * nothing produces into, times what its consumers make of a unit.
+ */
+export function medianEnergyStoreValue(spec: ResolvedSiteSpec, j: number, energyValue: number): number {
+  const yields = spec.units.filter((u) => u.produces?.store === j).map((u) => u.produces!.perKwh);
+  if (yields.length) return energyValue / Math.max(...yields);
+  let value = 0;
+  for (const u of spec.units) if (u.consumes?.store === j) value = Math.max(value, energyValue / u.consumes.perKwh);
+  return value;
+}

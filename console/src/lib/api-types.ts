@@ -1808,9 +1808,9 @@ export interface components {
             objective?: {
                 /** @description The SPEC.md §2 objective evaluated on the returned schedule; null when there is no schedule. */
                 value: number | null;
-                /** @description The solver's dual bound (monolithic only); null when unknown. */
+                /** @description A proven upper bound on the objective of any schedule the spec allows: the solver’s dual bound when one model covers the horizon; for a rolling solve, the horizon bound of `model.horizonBound` (a decomposition of the horizon into blocks whose links are relaxed and priced). null when unknown. */
                 bound: number | null;
-                /** @description Relative MIP gap; null when unknown. */
+                /** @description Relative gap |bound − value| / |value|; null when the bound is unknown. */
                 gap: number | null;
             };
             /** @description null when there is no schedule (infeasible, no-solution). */
@@ -1895,6 +1895,19 @@ export interface components {
             buildSeconds: number;
             /** @description Solver time summed over windows and blocks; parallel parts overlap, so it can exceed the elapsed time. */
             solveSeconds: number;
+            /** @description How a rolling solve’s `objective.bound` was proven; null for a single model, which has its solver’s bound. */
+            horizonBound: {
+                /** @description Blocks of the horizon, each solved as one LP with its links to the others relaxed and priced. */
+                blocks: number;
+                /** @description Solver time summed over the blocks. */
+                solveSeconds: number;
+                /** @description The proven bound, as in `objective.bound`. */
+                bound: number | null;
+                /** @description The proven gap, as in `objective.gap`. */
+                gap: number | null;
+                /** @description Why `objective.bound` is null (the time limit ran out, a block not solved); null when it is known. */
+                reason: string | null;
+            } | null;
             solver: {
                 name: string;
                 version: string;

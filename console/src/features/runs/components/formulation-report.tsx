@@ -59,6 +59,18 @@ function CoefficientRangeChart({ model }: { model: ModelReport }) {
   );
 }
 
+/** A rolling solve's proof of quality: the bound on the whole horizon and the gap it leaves, or why there is none. */
+function HorizonBoundStats({ bound }: { bound: NonNullable<ModelReport['horizonBound']> }) {
+  if (bound.reason !== null || bound.bound === null) return <Stat label="Horizon bound" value={`none: ${bound.reason ?? 'unknown'}`} />;
+  return (
+    <>
+      <Stat label="Horizon bound" value={formatNumber(bound.bound, 2)} />
+      <Stat label="Proven gap" value={bound.gap === null ? '—' : formatPercent(bound.gap, 3)} />
+      <Stat label="Bound blocks" value={`${bound.blocks} (${formatSeconds(bound.solveSeconds)})`} />
+    </>
+  );
+}
+
 /**
  * The internal units `scaling` chose (1 each when it is off): power, money, each store in its own
  * unit, and the demand-charge peaks (SPEC §5 keeps store levels and peaks near order one too).
@@ -129,6 +141,7 @@ export function FormulationReport({ model, spec }: { model: ModelReport; spec?: 
         <dl>
           <Stat label="Mode" value={model.mode} />
           {model.mode === 'rolling' && <Stat label="Parallel segments" value={model.segments} />}
+          {model.horizonBound && <HorizonBoundStats bound={model.horizonBound} />}
           <Stat label="Variables" value={formatNumber(model.variables, 0)} />
           <Stat label="Binaries (after pruning)" value={formatNumber(model.binaries, 0)} />
           <Stat label="Binaries pruned" value={formatNumber(model.binariesPruned, 0)} />
