@@ -1,10 +1,10 @@
 import { useState } from 'react';
-import { Link } from 'react-router-dom';
 import { Bar, CartesianGrid, ComposedChart, Legend, Line, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { ComparisonRow, StudyComparison } from '@gridwright/shared/studies';
 import { AdvisoryNote } from '@/components/advisory-note';
 import { SelectField } from '@/components/field';
 import { Table, Td, Th } from '@/components/data-table';
+import { OpenRunLink } from '@/components/open-run-link';
 import { StatusPill } from '@/components/status-pill';
 import { chartColors, seriesPalette } from '@/lib/chart-colors';
 import { OBJECTIVE_TERMS } from '@/lib/objective-terms';
@@ -167,9 +167,7 @@ export function ComparisonView({ comparison }: { comparison: StudyComparison }) 
                 </Td>
               ))}
               <Td>
-                <Link to={`/runs/${r.runId}`} className="text-xs text-kiln-700 hover:underline">
-                  Open run
-                </Link>
+                <OpenRunLink runId={r.runId} />
               </Td>
             </tr>
           ))}

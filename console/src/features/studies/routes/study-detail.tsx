@@ -3,6 +3,7 @@ import { Button } from '@/components/button';
 import { Table, Td, Th } from '@/components/data-table';
 import { PageHeader, Panel } from '@/components/page-header';
 import { ProblemAlert } from '@/components/problem-alert';
+import { OpenRunLink } from '@/components/open-run-link';
 import { StatusPill } from '@/components/status-pill';
 import { EmptyState, Loading } from '@/components/states';
 import { formatDateTime } from '@/lib/format';
@@ -87,9 +88,7 @@ export function StudyDetailRoute() {
                     </span>
                   </Td>
                   <Td>
-                    <Link to={`/runs/${r.runId}`} className="text-xs text-kiln-700 hover:underline">
-                      Open run
-                    </Link>
+                    <OpenRunLink runId={r.runId} />
                   </Td>
                 </tr>
               ))}
