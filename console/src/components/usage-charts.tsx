@@ -2,7 +2,7 @@ import { useMemo } from 'react';
 import { Bar, CartesianGrid, ComposedChart, Legend, Line, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { chartColors } from '@/lib/chart-colors';
 import type { Schemas } from '@/lib/api-client';
-import { axisUnit, legendStyle, tickNumber, valueWithUnit } from '@/lib/chart-format';
+import { axisUnit, legendProps, tickNumber, withUnit } from '@/components/chart-axes';
 import { formatNumber, formatPercent } from '@/lib/format';
 import { usagePoints } from '@/lib/usage-series';
 
@@ -37,8 +37,8 @@ function QuotaChart({ title, usage, kind }: { title: string; usage: Usage; kind:
             <XAxis dataKey="date" tickFormatter={day} tick={tick} tickLine={false} />
             <YAxis yAxisId="day" width={52} tick={tick} tickFormatter={tickNumber} label={axisUnit(`${unit} per day`)} />
             <YAxis yAxisId="total" orientation="right" width={56} tick={tick} tickFormatter={tickNumber} label={{ ...axisUnit(`${unit} this month`), angle: 90, position: 'insideRight' }} />
-            <Tooltip formatter={valueWithUnit(unit)} />
-            <Legend wrapperStyle={legendStyle} />
+            <Tooltip formatter={withUnit(unit, 2)} />
+            <Legend {...legendProps} />
             <Bar yAxisId="day" dataKey={kind} name="per day" fill={chartColors.greyLight} isAnimationActive={false} />
             <Line yAxisId="total" dataKey={toDate} name="month to date" stroke={chartColors.accent} strokeWidth={2} dot={false} isAnimationActive={false} />
             <Line yAxisId="total" dataKey={pace} name="even pace to quota" stroke={chartColors.grey} strokeDasharray="4 3" dot={false} isAnimationActive={false} />
