@@ -1,6 +1,11 @@
 import { afterAll, describe, expect, it } from 'vitest';
+import { exampleSites } from '@gridwright/shared/examples';
+import { buildWindowModel } from '../../api/src/engine/build-window-model';
+import { initialState } from '../../api/src/engine/carry-state';
 import { Deadline } from '../../api/src/engine/deadline';
+import { monolithicWindow } from '../../api/src/engine/horizon-windows';
 import type { ModelArrays } from '../../api/src/engine/model-arrays';
+import { planWindow, siteFacts } from '../../api/src/engine/plan-window';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { SolveAbortedError } from '../../api/src/engine/solver-port';
 import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
@@ -55,6 +60,27 @@ describe('HiGHS solver pool', () => {
       await own.close();
     }
   });
+
+  it('stops a MIP at its first incumbent once past stopWithSolutionBy, and otherwise solves it to the gap', async () => {
+    // The island demo as one model: its LP bound sits a few per cent from the optimum, so HiGHS
+    // holds incumbents long before it proves one within the gap.
+    const spec = resolve(exampleSites.find((e) => e.id === 'island-microgrid')!.spec as any);
+    const window = monolithicWindow(spec)[0];
+    const { model } = buildWindowModel(planWindow(spec, siteFacts(spec), window, initialState(spec)));
+    const hard = () => Deadline.after(600);
+
+    const early = await pool.solve(model, { deadline: hard(), stopWithSolutionBy: Deadline.after(0), mipGap: 1e-4 });
+    expect(early.status).toBe('time-limit');
+    expect(early.killedAtDeadline).toBe(false);
+    expect(early.colValue).not.toBeNull();
+    expect(early.mipGap!).toBeGreaterThan(1e-4);
+
+    const full = await pool.solve(model, { deadline: hard(), mipGap: 1e-4 });
+    expect(full.status).toBe('optimal');
+    expect(full.mipGap!).toBeLessThanOrEqual(1e-4);
+    // The first incumbent is a schedule, not the optimum: never better than it.
+    expect(early.objective!).toBeLessThanOrEqual(full.objective! + 1e-6 * Math.abs(full.objective!));
+  }, 600_000);
 
   it('recycles workers after their quota of solves without losing results', async () => {
     const values: number[] = [];

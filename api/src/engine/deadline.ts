@@ -10,7 +10,7 @@
  *                stop (`workerHardStop`) aborts the solve half the grace after it, so a live
  *                worker always ends its run before the job expires.
  *   engine       `SolveBudget` shares the run's deadline out over the windows still to solve
- *                (`deadline.share`); each window, its blocks and its re-solves end by that share.
+ *                (`deadline.within`); each window, its blocks and its re-solves end by that share.
  *   solver port  Each solve carries its window's deadline. The HiGHS pool sets HiGHS's own
  *                `time_limit` to what remains when a thread takes the solve (at least
  *                MIN_SOLVE_SECONDS), and terminates the thread `solverOverrunSeconds` after that,
@@ -40,12 +40,11 @@ export class Deadline {
   }
 
   /**
-   * A deadline for a part of the work: `fraction` of the time left (all of it at most), yet at
-   * least `floorSeconds` from now — a part started late still gets a chance to finish.
+   * A deadline for a part of the work: `seconds` from now but not after this one, yet at least
+   * `floorSeconds` from now — a part started late still gets a chance to finish.
    */
-  share(fraction: number, floorSeconds = 0, nowMs = monotonicMs()): Deadline {
-    const seconds = this.remainingSeconds(nowMs) * Math.min(1, Math.max(0, fraction));
-    return Deadline.after(Math.max(floorSeconds, seconds), nowMs);
+  within(seconds: number, floorSeconds = 0, nowMs = monotonicMs()): Deadline {
+    return Deadline.after(Math.max(floorSeconds, Math.min(Math.max(0, seconds), this.remainingSeconds(nowMs))), nowMs);
   }
 
   /** The same instant `seconds` later: a hard stop behind a soft limit. */

@@ -40,11 +40,15 @@ export const endedWithoutSchedule = (result: WindowSolve) => result.outcome === 
 /** The window a sequence ended on without a schedule, if it did. */
 export const failedRecord = (end: SequenceEnd): WindowRecord | null => (end.failedAt === null ? null : end.records[end.failedAt]);
 
-/** One window on the run's solver threads, within its share of the run's time. */
+/**
+ * One window on the run's solver threads, within its share of the run's time — or longer, up to
+ * the budget's last resort, while it has no feasible schedule yet.
+ */
 export async function solveBudgetedWindow(ctx: SolveContext, window: HorizonWindow, start: WindowStartState, buffers: ScheduleBuffers): Promise<WindowSolve> {
   const result = await solveWindow(ctx.spec, ctx.facts, window, start, buffers, {
     solver: ctx.solver,
-    deadline: ctx.budget.nextWindowDeadline(),
+    stopWithSolutionBy: ctx.budget.nextWindowDeadline(),
+    deadline: ctx.budget.lastResortDeadline(),
     signal: ctx.signal,
     onLog: ctx.onLog,
   });

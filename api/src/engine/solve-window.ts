@@ -43,6 +43,8 @@ export interface WindowSolveOptions {
   solver: SolverPort;
   /** The window's share of the run's time: its blocks and re-solves all end by it. */
   deadline: Deadline;
+  /** Where given, the window's solves stop here once they hold a feasible schedule (SolveRequest). */
+  stopWithSolutionBy?: Deadline;
   signal?: AbortSignal;
   onLog?: (line: string) => void;
 }
@@ -83,6 +85,7 @@ export async function solveWindow(
       built.model,
       {
         deadline: opts.deadline,
+        stopWithSolutionBy: opts.stopWithSolutionBy,
         mipGap: spec.solver.mipGap,
         wantIis: built.model.numCols <= IIS_MAX_COLUMNS,
         signal: opts.signal,

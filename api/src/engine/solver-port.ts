@@ -28,6 +28,11 @@ export interface SolverIdentity {
 export interface SolveRequest {
   /** The solve ends by this instant; time spent waiting for a free solver counts. */
   deadline: Deadline;
+  /**
+   * Once it holds a feasible point, the solve stops at this instant (before `deadline`); without
+   * one it goes on until `deadline`. Absent: it stops at `deadline` only.
+   */
+  stopWithSolutionBy?: Deadline;
   /** Relative MIP gap at which the solver may stop. */
   mipGap: number;
   /** Absolute gap in the model's objective units; absent ⇒ the solver's default. */

@@ -16,6 +16,8 @@ export interface HighsSolveMessage {
   model: ModelArrays;
   /** HiGHS's own (soft) `time_limit`, counted from when the thread takes the model. */
   timeLimitSeconds: number;
+  /** From when the thread takes the model: past this, a MIP that holds an incumbent stops with it. */
+  stopWithSolutionAfterSeconds: number | null;
   mipGap: number;
   mipAbsGap?: number;
   wantIis: boolean;

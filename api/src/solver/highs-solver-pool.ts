@@ -258,6 +258,7 @@ export class HighsSolverPool implements SolverPort {
         id,
         model,
         timeLimitSeconds,
+        stopWithSolutionAfterSeconds: request.stopWithSolutionBy ? Math.min(timeLimitSeconds, request.stopWithSolutionBy.remainingSeconds()) : null,
         mipGap: request.mipGap,
         ...(request.mipAbsGap !== undefined ? { mipAbsGap: request.mipAbsGap } : {}),
         wantIis: request.wantIis ?? false,

@@ -36,8 +36,12 @@ function infoNumber(model: { info: { get(name: string): number | bigint } }, nam
   }
 }
 
+/** When the solve in progress may stop as soon as it holds an incumbent (performance.now() ms), and whether it holds one. */
+let stopWithSolutionAtMs = Infinity;
+let holdsIncumbent = false;
+
 function stopWhenInterrupted(event: { interrupt(): void }): undefined {
-  if (Atomics.load(interrupt, 0) !== 0) event.interrupt();
+  if (Atomics.load(interrupt, 0) !== 0 || (holdsIncumbent && performance.now() >= stopWithSolutionAtMs)) event.interrupt();
   return undefined;
 }
 
@@ -56,6 +60,8 @@ function solve(req: HighsSolveMessage): HighsResult {
     matrix: { format: 'csc', numRows: m.numRows, numCols: m.numCols, starts: m.starts, indices: m.indices, values: m.values },
     integrality: m.integrality,
   });
+  holdsIncumbent = false;
+  stopWithSolutionAtMs = req.stopWithSolutionAfterSeconds === null ? Infinity : performance.now() + req.stopWithSolutionAfterSeconds * 1000;
   try {
     model.options.set(highsOptions(isMip, req));
     const run = model.run({
@@ -66,7 +72,10 @@ function solve(req: HighsSolveMessage): HighsResult {
       1: stopWhenInterrupted,
       4: (event) => {
         const x = event.data.mip_solution;
-        if (x) post({ type: 'incumbent', id: req.id, colValue: x, objective: event.data.objective_function_value ?? NaN }, [x.buffer as ArrayBuffer]);
+        if (x) {
+          holdsIncumbent = true;
+          post({ type: 'incumbent', id: req.id, colValue: x, objective: event.data.objective_function_value ?? NaN }, [x.buffer as ArrayBuffer]);
+        }
         return undefined;
       },
       6: stopWhenInterrupted,
