@@ -10,5 +10,9 @@ export const chartColors = {
   danger: '#b42318',
 };
 
-/** Several series at once (unit power lines): the accent first, then distinguishable greys and accent shades. */
-export const seriesPalette = ['#cc5a26', '#3f3c38', '#8f3a14', '#9d9992', '#e0895a', '#6b6761', '#b8b4ad', '#5c2710'];
+/**
+ * Several series at once (unit power lines, stacked terms): the accent first, then hues far enough
+ * from it and from each other that neighbouring lines stay apart; shades of the accent alone were
+ * mistaken for one another on a site with three gensets.
+ */
+export const seriesPalette = ['#cc5a26', '#2b6a8e', '#3f3c38', '#c79a1e', '#4f8a5b', '#8e4f9e', '#9d9992', '#8f3a14'];

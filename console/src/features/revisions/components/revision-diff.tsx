@@ -103,7 +103,7 @@ export function RevisionDiffPanel({ runId, baseId }: { runId: string; baseId: st
                   <ResponsiveContainer width="100%" height="100%">
                     <LineChart data={points} margin={{ top: 4, right: 8, bottom: 0, left: 0 }}>
                       <CartesianGrid stroke={chartColors.grid} vertical={false} />
-                      <XAxis dataKey="time" tickFormatter={(t) => formatDateTime(String(t))} minTickGap={60} tick={tick} />
+                      <XAxis dataKey="time" tickFormatter={(t) => formatDateTime(String(t))} minTickGap={60} interval="preserveStart" tick={tick} />
                       <YAxis width={48} tick={tick} />
                       <Tooltip labelFormatter={(l) => formatDateTime(String(l))} />
                       <Legend wrapperStyle={{ fontSize: 11 }} />

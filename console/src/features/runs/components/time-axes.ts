@@ -7,6 +7,8 @@ import { shortTime } from '../lib/chart-data';
  * line up step for step.
  */
 export const timelineChartProps = { syncId: 'dispatch', margin: { top: 4, right: 12, bottom: 0, left: 0 } };
-export const timeAxisProps = { dataKey: 'time', tickFormatter: shortTime, minTickGap: 40, ...axisProps };
+// Ticks are thinned from the end by default, which hid the horizon's first step; the start is the
+// time an operator reads the plan from, so it keeps its tick.
+export const timeAxisProps = { dataKey: 'time', tickFormatter: shortTime, minTickGap: 40, interval: 'preserveStart' as const, ...axisProps };
 export const valueAxisProps = { ...axisProps, width: 56, tickFormatter: compactNumber };
 export const stepLabel = (label: unknown) => shortTime(String(label));
