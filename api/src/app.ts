@@ -16,6 +16,7 @@ import { errorHandler, notFoundHandler } from './lib/error-handler';
 import { compileOpenApiRoutePatternsOnce } from './lib/openapi-route-patterns';
 import { HttpProblem, problemType } from './lib/problem';
 import { requestLog } from './lib/request-log';
+import { runPollRequest } from './lib/run-poll-request';
 import { STRICT_ROUTING } from './lib/strict-router';
 import { adminBillingRouter } from './routes/admin-billing';
 import { adminTenantsRouter } from './routes/admin-tenants';
@@ -150,7 +151,7 @@ export function buildApp(ctx: AppContext): Express {
     body.parse(req, res, next);
   });
   compileOpenApiRoutePatternsOnce();
-  app.use(
+  const validateRequest = express.Router().use(
     OpenApiValidator.middleware({
       apiSpec: validatorDoc,
       validateRequests: { allErrors: true, removeAdditional: false },
@@ -160,6 +161,8 @@ export function buildApp(ctx: AppContext): Express {
       ignorePaths: (p: string) => !isApiPath(p),
     }),
   );
+  const isRunPoll = runPollRequest(validatorDoc);
+  app.use((req, res, next) => (isRunPoll(req) ? next() : validateRequest(req, res, next)));
 
   // Resource routers are mounted here, one per resource (see DEVELOPERS.md). Their paths do not
   // overlap; runs come first because clients poll GET /v1/runs/{id}, and every router before it
