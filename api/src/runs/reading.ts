@@ -18,22 +18,19 @@ export async function getRun(ctx: AppContext, tenantId: string, id: string): Pro
 }
 
 /**
- * `getRun` for `GET /v1/runs/{id}`, the route clients poll: one prepared statement for the columns
- * the view shows, without the spec and the solver log and without the ORM's mapping.
+ * What `GET /v1/runs/{id}` reads of a run: the columns the view shows, without the spec and the
+ * solver log. The change notices of migration 1780000780000 watch the same columns.
  */
+export const RUN_FOR_VIEW_SQL = `SELECT id, tenant_id AS "tenantId", created_at AS "createdAt", status, outcome, name, steps, units,
+       started_at AS "startedAt", finished_at AS "finishedAt", cancel_requested_at AS "cancelRequestedAt",
+       windows_done AS "windowsDone", windows_total AS "windowsTotal", attempts, result, error, solver_seconds AS "solverSeconds",
+       parent_run_id AS "parentRunId", root_run_id AS "rootRunId", replan_from_step AS "replanFromStep", root_step AS "rootStep",
+       study_id AS "studyId", study_position AS "studyPosition"
+  FROM runs WHERE id = $1 AND tenant_id = $2`;
+
+/** `getRun` for the route clients poll: one prepared statement, without the ORM's mapping. */
 async function getRunForView(ctx: AppContext, tenantId: string, id: string): Promise<RunForView> {
-  const { rows } = isUuid(id)
-    ? await pgPoolOf(ctx.db).query<RunForView>({
-        name: 'run-for-view',
-        text: `SELECT id, tenant_id AS "tenantId", created_at AS "createdAt", status, outcome, name, steps, units,
-                      started_at AS "startedAt", finished_at AS "finishedAt", cancel_requested_at AS "cancelRequestedAt",
-                      windows_done AS "windowsDone", windows_total AS "windowsTotal", attempts, result, error, solver_seconds AS "solverSeconds",
-                      parent_run_id AS "parentRunId", root_run_id AS "rootRunId", replan_from_step AS "replanFromStep", root_step AS "rootStep",
-                      study_id AS "studyId", study_position AS "studyPosition"
-                 FROM runs WHERE id = $1 AND tenant_id = $2`,
-        values: [id, tenantId],
-      })
-    : { rows: [] };
+  const { rows } = isUuid(id) ? await pgPoolOf(ctx.db).query<RunForView>({ name: 'run-for-view', text: RUN_FOR_VIEW_SQL, values: [id, tenantId] }) : { rows: [] };
   if (!rows[0]) throw notFound(`Run ${id}`);
   return rows[0];
 }

@@ -6,7 +6,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { RunResult } from '@gridwright/shared/run-result';
-import { getRun } from '../../../api/src/runs/reading';
+import { getRun, RUN_FOR_VIEW_SQL } from '../../../api/src/runs/reading';
 import { runViewCacheFor } from '../../../api/src/runs/run-view-cache';
 import { claimRun, finishRun, recordProgress } from '../../../api/src/runs/transitions';
 import { runDetail } from '../../../api/src/runs/view';
@@ -166,6 +166,19 @@ describe('GET /v1/runs/{id} as clients poll it', () => {
       const again = await request(t.app).get(`/v1/runs/${id}`).set(bearer(key)).set('If-None-Match', res.headers.etag);
       expect(again.status).toBe(304);
       expect(again.headers.ratelimit).toBeDefined();
+    }
+  });
+
+  it('sends a change notice for every column the view reads', async () => {
+    const selected = RUN_FOR_VIEW_SQL.replace(/^SELECT\s+|\s+FROM[\s\S]*$/g, '')
+      .split(',')
+      .map((item) => item.trim().split(/\s/)[0]!);
+    expect(selected).toContain('status');
+    const [{ def }] = await t.ctx.db.query(`SELECT pg_get_triggerdef(oid) AS def FROM pg_trigger WHERE tgname = 'runs_view_change'`);
+    // The id never changes; a deleted run has a trigger of its own.
+    for (const column of selected.filter((c) => c !== 'id')) {
+      expect(def, column).toContain(`old.${column}`);
+      expect(def, column).toContain(`new.${column}`);
     }
   });
 
