@@ -4,14 +4,13 @@
 // a run that is still moving must show every move, and a kept view must stay its tenant's.
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { RunResult } from '@gridwright/shared/run-result';
 import { getRun } from '../../../api/src/runs/reading';
 import { claimRun, finishRun, recordProgress } from '../../../api/src/runs/transitions';
 import { runDetail } from '../../../api/src/runs/view';
 import { eventually } from '../../support/eventually';
 import { createTenantWithKey } from '../../support/tenants';
 import { startTestApp, type TestApp } from '../../support/test-app';
-import { bearer, FAST_QUEUE_ENV, smallSpec } from './run-helpers';
+import { bearer, FAST_QUEUE_ENV, handMadeResult, smallSpec } from './run-helpers';
 
 describe('reading a run', () => {
   let t: TestApp;
@@ -41,16 +40,7 @@ describe('reading a run', () => {
     await recordProgress(t.ctx.db, claimed, { windowsDone: 1, windowsTotal: 4 });
     expect((await read(id)).progress).toEqual({ windowsDone: 1, windowsTotal: 4, percent: 25 });
 
-    const result = {
-      status: 'succeeded',
-      outcome: 'optimal',
-      objective: { value: 12.5, bound: 12.5, gap: 0 },
-      kpis: null,
-      schedule: null,
-      model: { binaries: 3 } as unknown as RunResult['model'],
-      warnings: [],
-    } as unknown as Parameters<typeof finishRun>[2];
-    await finishRun(t.ctx.db, claimed, result, { log: 'log\n', solverSeconds: 0.5, progress: { windowsDone: 4, windowsTotal: 4 } });
+    await finishRun(t.ctx.db, claimed, handMadeResult(12.5, 3), { log: 'log\n', solverSeconds: 0.5, progress: { windowsDone: 4, windowsTotal: 4 } });
     const first = await read(id);
     expect(first).toMatchObject({ status: 'succeeded', outcome: 'optimal', objective: { value: 12.5 }, model: { binaries: 3 }, progress: { percent: 100 } });
     expect(await read(id)).toEqual(first);

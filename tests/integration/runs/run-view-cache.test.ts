@@ -5,7 +5,6 @@
 // explain an answer catching up.
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { RunResult } from '@gridwright/shared/run-result';
 import { getRun, RUN_FOR_VIEW_SQL } from '../../../api/src/runs/reading';
 import { runViewCacheFor } from '../../../api/src/runs/run-view-cache';
 import { claimRun, finishRun, recordProgress } from '../../../api/src/runs/transitions';
@@ -13,19 +12,11 @@ import { runDetail } from '../../../api/src/runs/view';
 import { eventually } from '../../support/eventually';
 import { createTenantWithKey } from '../../support/tenants';
 import { startTestApp, type TestApp } from '../../support/test-app';
-import { bearer, FAST_QUEUE_ENV, smallSpec } from './run-helpers';
+import { bearer, FAST_QUEUE_ENV, handMadeResult, smallSpec } from './run-helpers';
 
 const MINUTE = { ...FAST_QUEUE_ENV, RUN_CACHE_SECONDS: '60' };
 
-const finishedResult = {
-  status: 'succeeded',
-  outcome: 'optimal',
-  objective: { value: 7.25, bound: 7.25, gap: 0 },
-  kpis: null,
-  schedule: null,
-  model: { binaries: 2 } as unknown as RunResult['model'],
-  warnings: [],
-} as unknown as Parameters<typeof finishRun>[2];
+const finishedResult = handMadeResult(7.25, 2);
 
 describe('kept run views across API processes', () => {
   let a: TestApp;
