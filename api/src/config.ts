@@ -162,6 +162,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     rateLimitWindowSeconds: e.RATE_LIMIT_WINDOW_SECONDS,
     /** How long an API process may keep a key or tenant it looked up, should a change notice be missed (0: never keep one). */
     credentialCacheSeconds: e.CREDENTIAL_CACHE_SECONDS,
+    /** How long an API process may keep the view of a queued or running run, should a change notice be missed (0: never keep one). */
     runCacheSeconds: e.RUN_CACHE_SECONDS,
     /** Failed sign-ins per account before it is locked; per address the limit is ten times this. */
     signInMaxFailures: e.SIGNIN_MAX_FAILURES,

@@ -43,7 +43,7 @@ const FINAL_STATUSES: ReadonlySet<RunStatus> = new Set(RUN_STATUSES.filter((s) =
  * function, so an answer is the same whether it was kept or not). Polling clients read a run again
  * and again, so the process keeps what it made (run-view-cache.ts): a finished run's large schedule
  * is neither read from PostgreSQL nor serialised again, and a queued or running run is read once
- * per change, not once per poll.
+ * per change (and at least every RUN_CACHE_SECONDS), not once per poll.
  */
 export async function getRunDetailText(
   ctx: AppContext,

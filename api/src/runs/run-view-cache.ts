@@ -20,7 +20,8 @@ export interface RunViewText {
 /** Bytes of views one process keeps; a view larger than a sixteenth of it is not kept. */
 const VIEWS_BYTES = 64 * 2 ** 20;
 
-const keyOf = (tenantId: string, id: string) => `${tenantId}/${id}`;
+// Ids are UUIDs, which PostgreSQL matches in either case while notices name them in lower case.
+const keyOf = (tenantId: string, id: string) => `${tenantId}/${id.toLowerCase()}`;
 
 export class RunViewCache {
   /** Bumped by every change and every gap in listening: a view read across one is served but not kept. */
