@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import cookieParser from 'cookie-parser';
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import * as OpenApiValidator from 'express-openapi-validator';
 import helmet from 'helmet';
 import swaggerUi from 'swagger-ui-express';
@@ -16,7 +16,8 @@ import { errorHandler, notFoundHandler } from './lib/error-handler';
 import { compileOpenApiRoutePatternsOnce } from './lib/openapi-route-patterns';
 import { HttpProblem, problemType } from './lib/problem';
 import { requestLog } from './lib/request-log';
-import { STRICT_ROUTING } from './lib/strict-router';
+import { runPollRequest } from './lib/run-poll-request';
+import { STRICT_ROUTING, strictRouter } from './lib/strict-router';
 import { adminBillingRouter } from './routes/admin-billing';
 import { adminTenantsRouter } from './routes/admin-tenants';
 import { apiKeysRouter } from './routes/api-keys';
@@ -95,10 +96,14 @@ export function buildApp(ctx: AppContext): Express {
     next();
   });
 
-  app.get('/healthz', (_req, res) => {
+  // Health, metrics, the document and the payment provider's hooks: outside /v1, so an API request
+  // leaves their router at its first check instead of trying each of their routes in turn.
+  const outsideApi = strictRouter();
+  outsideApi.use((req, _res, next) => next(isApiPath(req.path) ? 'router' : undefined));
+  outsideApi.get('/healthz', (_req, res) => {
     res.json({ status: 'ok' });
   });
-  app.get('/readyz', async (_req, res) => {
+  outsideApi.get('/readyz', async (_req, res) => {
     const ready = await databaseReadiness(ctx.db);
     if (ready.ok) return res.json({ status: 'ready' });
     res
@@ -107,15 +112,17 @@ export function buildApp(ctx: AppContext): Express {
       .setHeader('Retry-After', '5')
       .send(JSON.stringify({ type: problemType('not-ready'), title: 'Not ready', status: 503, detail: ready.reason }));
   });
-  app.get('/metrics', metricsAccess(ctx.config), async (_req, res) => {
+  outsideApi.get('/metrics', metricsAccess(ctx.config), async (_req, res) => {
     res.type(ctx.metrics.registry.contentType).send(await ctx.metrics.registry.metrics());
   });
-  app.get('/openapi.yaml', (_req, res) => {
+  outsideApi.get('/openapi.yaml', (_req, res) => {
     res.type('application/yaml').send(openapiText);
   });
-  app.use('/docs', swaggerUi.serve, swaggerUi.setup(openapiDoc, { customSiteTitle: 'Gridwright API' }));
+  outsideApi.use('/docs', swaggerUi.serve, swaggerUi.setup(openapiDoc, { customSiteTitle: 'Gridwright API' }));
   // Signed by the payment provider and read raw, before any parser: see routes/payment-events.ts.
-  app.use(paymentEventsRouter(ctx));
+  outsideApi.use(paymentEventsRouter(ctx));
+
+  app.use(outsideApi);
 
   // Another spelling of a documented path (`/V1/…`, a trailing slash) is refused before anything
   // else looks at it, so it can never meet a handler the contract did not describe.
@@ -150,16 +157,17 @@ export function buildApp(ctx: AppContext): Express {
     body.parse(req, res, next);
   });
   compileOpenApiRoutePatternsOnce();
-  app.use(
-    OpenApiValidator.middleware({
-      apiSpec: validatorDoc,
-      validateRequests: { allErrors: true, removeAdditional: false },
-      validateResponses: false,
-      validateSecurity: false,
-      fileUploader: false,
-      ignorePaths: (p: string) => !isApiPath(p),
-    }),
-  );
+  const isRunPoll = runPollRequest(validatorDoc);
+  const validateRequest = OpenApiValidator.middleware({
+    apiSpec: validatorDoc,
+    validateRequests: { allErrors: true, removeAdditional: false },
+    validateResponses: false,
+    validateSecurity: false,
+    fileUploader: false,
+    ignorePaths: (p: string) => !isApiPath(p),
+  });
+  // Each of the validator's steps is asked unless the request is a plain poll (lib/run-poll-request.ts).
+  app.use(validateRequest.map((step): RequestHandler => (req, res, next) => (isRunPoll(req) ? next() : step(req, res, next))));
 
   // Resource routers are mounted here, one per resource (see DEVELOPERS.md). Their paths do not
   // overlap; runs come first because clients poll GET /v1/runs/{id}, and every router before it

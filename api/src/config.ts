@@ -72,6 +72,7 @@ export const environmentSchema = z
     PASSWORD_RESET_EMAILS_PER_HOUR: wholeNumber(1).default(3),
     RATE_LIMIT_WINDOW_SECONDS: wholeNumber(1).default(10),
     CREDENTIAL_CACHE_SECONDS: wholeNumber(0, 3600).default(10),
+    RUN_CACHE_SECONDS: wholeNumber(0, 60).default(2),
     WORKER_CONCURRENCY: wholeNumber(1).default(1),
     SOLVER_THREADS: wholeNumber(1).optional(),
     IDEMPOTENCY_HOURS: decimalNumber({ above: 0 }).default(24),
@@ -161,6 +162,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     rateLimitWindowSeconds: e.RATE_LIMIT_WINDOW_SECONDS,
     /** How long an API process may keep a key or tenant it looked up, should a change notice be missed (0: never keep one). */
     credentialCacheSeconds: e.CREDENTIAL_CACHE_SECONDS,
+    /** How long an API process may keep the view of a queued or running run, should a change notice be missed (0: never keep one). */
+    runCacheSeconds: e.RUN_CACHE_SECONDS,
     /** Failed sign-ins per account before it is locked; per address the limit is ten times this. */
     signInMaxFailures: e.SIGNIN_MAX_FAILURES,
     signInLockMinutes: e.SIGNIN_LOCK_MINUTES,

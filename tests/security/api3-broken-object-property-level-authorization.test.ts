@@ -9,6 +9,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputGuards1780000500000 } from '../../api/src/db/migrations/1780000500000-input-guards';
 import { RevisionsAndStudies1780000770000 } from '../../api/src/db/migrations/1780000770000-revisions-and-studies';
+import { RunChangeNotices1780000780000 } from '../../api/src/db/migrations/1780000780000-run-change-notices';
 import { SeriesKinds1780000710000 } from '../../api/src/db/migrations/1780000710000-series-kinds';
 import { createApiKey } from '../../api/src/services/api-keys';
 import { updateExportProfile } from '../../api/src/services/export-profiles';
@@ -251,7 +252,7 @@ describe('API3 behind the routes: the services and the database refuse what a bo
     const guards = new InputGuards1780000500000();
     // Later migrations lean on what the guards made (their (id, tenant_id) keys, the series constraint's
     // column): they step aside, newest first, and come back after the guards.
-    const later = [new SeriesKinds1780000710000(), new RevisionsAndStudies1780000770000()];
+    const later = [new SeriesKinds1780000710000(), new RevisionsAndStudies1780000770000(), new RunChangeNotices1780000780000()];
     const q = t.ctx.db.createQueryRunner();
     try {
       for (const m of [...later].reverse()) await m.down(q);

@@ -32,6 +32,7 @@ import { Billing1780000760000 } from './migrations/1780000760000-billing';
 import { RatePointReservations1780000530000 } from './migrations/1780000530000-rate-point-reservations';
 import { SeriesKinds1780000710000 } from './migrations/1780000710000-series-kinds';
 import { RevisionsAndStudies1780000770000 } from './migrations/1780000770000-revisions-and-studies';
+import { RunChangeNotices1780000780000 } from './migrations/1780000780000-run-change-notices';
 
 type Constructor = new (...args: any[]) => unknown;
 
@@ -50,4 +51,5 @@ export const migrations: Constructor[] = [
   SeriesKinds1780000710000,
   Billing1780000760000,
   RevisionsAndStudies1780000770000,
+  RunChangeNotices1780000780000,
 ];

@@ -8,7 +8,8 @@ import { runActorOf } from './run-actor';
 import { cancelRun } from '../runs/cancellation';
 import { delimiterNamed } from '../lib/csv-delimiters';
 import { optionalInstant } from '../lib/instants';
-import { getRun, getRunDetailJson, listRunDeliveries, listRuns } from '../runs/reading';
+import { getRun, getRunDetailText, listRunDeliveries, listRuns } from '../runs/reading';
+import { forgetRunView } from '../runs/run-view-cache';
 import { getRunSchedule, scheduleCsvFor, type ScheduleCsvChoices } from '../runs/schedule-export';
 import { submitRun } from '../runs/submission';
 import { runSummary } from '../runs/view';
@@ -65,7 +66,10 @@ export function runsRouter(ctx: AppContext): Router {
   });
 
   r.get('/v1/runs/:runId', auth, authorize('runs.read'), async (req, res) => {
-    res.type('application/json').send(await getRunDetailJson(ctx, req.principal!.tenantId, String(req.params.runId)));
+    const view = await getRunDetailText(ctx, req.principal!.tenantId, String(req.params.runId), req.app.get('etag fn'));
+    // Set here, Express keeps this ETag instead of hashing the body again, and still answers 304 to a matching If-None-Match.
+    if (view.etag) res.setHeader('ETag', view.etag);
+    res.type('application/json').send(view.json);
   });
 
   r.get('/v1/runs/:runId/spec', auth, authorize('runs.read'), async (req, res) => {
@@ -90,6 +94,8 @@ export function runsRouter(ctx: AppContext): Router {
 
   r.post('/v1/runs/:runId/cancel', auth, authorize('runs.cancel'), async (req, res) => {
     const run = await cancelRun(ctx, req.principal!.tenantId, String(req.params.runId));
+    // The change notice reaches this process too, but a client's next poll may come first.
+    forgetRunView(ctx, run.tenantId, run.id);
     res.status(202).json(runSummary(run));
   });
 

@@ -1,6 +1,4 @@
 import { RUN_STATUSES, type RunStatus } from '@gridwright/shared/run-result';
-import { LRUCache } from 'lru-cache';
-import type { DataSource } from 'typeorm';
 import type { AppContext } from '../context';
 import { Run } from '../db/entities/run';
 import { pgPoolOf } from '../db/pg-pool';
@@ -8,6 +6,7 @@ import { pageNewestFirst } from '../lib/pagination';
 import { notFound } from '../lib/problem';
 import { isUuid } from '../lib/uuid';
 import { listDeliveries } from '../services/webhooks';
+import { runViewCacheFor, type RunViewText } from './run-view-cache';
 import { RUN_TRANSITIONS } from './states';
 import { runDetail, type RunForView } from './view';
 
@@ -19,22 +18,19 @@ export async function getRun(ctx: AppContext, tenantId: string, id: string): Pro
 }
 
 /**
- * `getRun` for `GET /v1/runs/{id}`, the route clients poll: one prepared statement for the columns
- * the view shows, without the spec and the solver log and without the ORM's mapping.
+ * What `GET /v1/runs/{id}` reads of a run: the columns the view shows, without the spec and the
+ * solver log. The change notices of migration 1780000780000 watch the same columns.
  */
+export const RUN_FOR_VIEW_SQL = `SELECT id, tenant_id AS "tenantId", created_at AS "createdAt", status, outcome, name, steps, units,
+       started_at AS "startedAt", finished_at AS "finishedAt", cancel_requested_at AS "cancelRequestedAt",
+       windows_done AS "windowsDone", windows_total AS "windowsTotal", attempts, result, error, solver_seconds AS "solverSeconds",
+       parent_run_id AS "parentRunId", root_run_id AS "rootRunId", replan_from_step AS "replanFromStep", root_step AS "rootStep",
+       study_id AS "studyId", study_position AS "studyPosition"
+  FROM runs WHERE id = $1 AND tenant_id = $2`;
+
+/** `getRun` for the route clients poll: one prepared statement, without the ORM's mapping. */
 async function getRunForView(ctx: AppContext, tenantId: string, id: string): Promise<RunForView> {
-  const { rows } = isUuid(id)
-    ? await pgPoolOf(ctx.db).query<RunForView>({
-        name: 'run-for-view',
-        text: `SELECT id, tenant_id AS "tenantId", created_at AS "createdAt", status, outcome, name, steps, units,
-                      started_at AS "startedAt", finished_at AS "finishedAt", cancel_requested_at AS "cancelRequestedAt",
-                      windows_done AS "windowsDone", windows_total AS "windowsTotal", attempts, result, error, solver_seconds AS "solverSeconds",
-                      parent_run_id AS "parentRunId", root_run_id AS "rootRunId", replan_from_step AS "replanFromStep", root_step AS "rootStep",
-                      study_id AS "studyId", study_position AS "studyPosition"
-                 FROM runs WHERE id = $1 AND tenant_id = $2`,
-        values: [id, tenantId],
-      })
-    : { rows: [] };
+  const { rows } = isUuid(id) ? await pgPoolOf(ctx.db).query<RunForView>({ name: 'run-for-view', text: RUN_FOR_VIEW_SQL, values: [id, tenantId] }) : { rows: [] };
   if (!rows[0]) throw notFound(`Run ${id}`);
   return rows[0];
 }
@@ -42,35 +38,28 @@ async function getRunForView(ctx: AppContext, tenantId: string, id: string): Pro
 /** The states no transition leaves: a run in one has its final row, so its view never changes. */
 const FINAL_STATUSES: ReadonlySet<RunStatus> = new Set(RUN_STATUSES.filter((s) => !Object.values(RUN_TRANSITIONS).some((move) => (move.from as readonly RunStatus[]).includes(s))));
 
-/** Bytes of finished runs' views one process keeps; a view larger than a sixteenth of it is not kept. */
-const FINISHED_VIEWS_BYTES = 64 * 2 ** 20;
-
-const finishedViews = new WeakMap<DataSource, LRUCache<string, string>>();
-
-function finishedViewsOf(db: DataSource): LRUCache<string, string> {
-  let views = finishedViews.get(db);
-  if (!views) {
-    views = new LRUCache({ maxSize: FINISHED_VIEWS_BYTES, maxEntrySize: FINISHED_VIEWS_BYTES / 16, sizeCalculation: (json) => json.length });
-    finishedViews.set(db, views);
-  }
-  return views;
-}
-
 /**
- * The run's view (`runDetail`) as JSON text. A finished run's row is final, so its text is made
- * once and kept by this process: polling clients read results again and again, and a large
- * schedule is neither read from PostgreSQL nor serialised again. Another process makes its own
- * copy from the same final row, so nothing kept here can differ between processes.
+ * The run's view (`runDetail`) as JSON text, with its ETag made by `etagOf` (the app's own ETag
+ * function, so an answer is the same whether it was kept or not). Polling clients read a run again
+ * and again, so the process keeps what it made (run-view-cache.ts): a finished run's large schedule
+ * is neither read from PostgreSQL nor serialised again, and a queued or running run is read once
+ * per change (and at least every RUN_CACHE_SECONDS), not once per poll.
  */
-export async function getRunDetailJson(ctx: AppContext, tenantId: string, id: string): Promise<string> {
-  const views = finishedViewsOf(ctx.db);
-  const key = `${tenantId}/${id}`;
-  const kept = views.get(key);
-  if (kept !== undefined) return kept;
+export async function getRunDetailText(
+  ctx: AppContext,
+  tenantId: string,
+  id: string,
+  etagOf?: (json: string, encoding: 'utf8') => string,
+): Promise<RunViewText> {
+  const views = runViewCacheFor(ctx);
+  const kept = views.get(tenantId, id);
+  if (kept) return kept;
+  const readStarted = views.readStarted();
   const run = await getRunForView(ctx, tenantId, id);
   const json = JSON.stringify(runDetail(run));
-  if (FINAL_STATUSES.has(run.status)) views.set(key, json);
-  return json;
+  const view: RunViewText = { json, final: FINAL_STATUSES.has(run.status), ...(etagOf ? { etag: etagOf(json, 'utf8') } : {}) };
+  views.keep(tenantId, id, view, readStarted);
+  return view;
 }
 
 export interface RunListQuery {

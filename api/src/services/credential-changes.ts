@@ -1,8 +1,8 @@
 // Notices of committed changes to API keys, tenants and plans, sent by the triggers of
 // 1780000520000-credential-change-notices.ts and received here on one LISTEN connection per process.
-import type pg from 'pg';
 import type { DataSource } from 'typeorm';
 import { CREDENTIAL_CHANGES_CHANNEL } from '../db/migrations/1780000520000-credential-change-notices';
+import { listenForNotices } from '../db/notice-listener';
 import type { Logger } from '../lib/logger';
 
 export type CredentialChange = { table: 'api_keys' | 'tenants' | 'plans'; id: string } | { table: 'unknown' };
@@ -16,8 +16,6 @@ export interface CredentialChangeHandlers {
   onListening(): void;
 }
 
-const RECONNECT_DELAYS_MS = [250, 1000, 5000];
-
 function parseChange(payload: string | undefined): CredentialChange {
   try {
     const change = JSON.parse(payload ?? '') as { table?: unknown; id?: unknown };
@@ -30,40 +28,10 @@ function parseChange(payload: string | undefined): CredentialChange {
   return { table: 'unknown' };
 }
 
-/**
- * Holds one connection of `db`'s pool in LISTEN and reconnects when it drops. The connection is a
- * TypeORM query runner, so `db.destroy()` releases it and nothing else has to stop the listener.
- */
 export function listenForCredentialChanges(db: DataSource, log: Logger, handlers: CredentialChangeHandlers): void {
-  let failures = 0;
-  const retry = () => {
-    const delay = RECONNECT_DELAYS_MS[Math.min(failures++, RECONNECT_DELAYS_MS.length - 1)]!;
-    setTimeout(() => void listen(), delay).unref();
-  };
-  const listen = async () => {
-    if (!db.isInitialized) return;
-    const runner = db.createQueryRunner();
-    const onNotice = (notice: pg.Notification) => {
-      if (notice.channel === CREDENTIAL_CHANGES_CHANNEL) handlers.onChange(parseChange(notice.payload));
-    };
-    let client: pg.PoolClient | null = null;
-    try {
-      client = (await runner.connect()) as pg.PoolClient;
-      client.on('notification', onNotice);
-      await runner.query(`LISTEN ${CREDENTIAL_CHANGES_CHANNEL}`);
-    } catch (err) {
-      if (db.isInitialized) log.warn({ err }, 'cannot listen for credential changes; cached keys and tenants are not used until it can');
-      client?.removeListener('notification', onNotice);
-      await runner.release();
-      retry();
-      return;
-    }
-    client.once('end', () => {
-      handlers.onDeaf();
-      retry();
-    });
-    failures = 0;
-    handlers.onListening();
-  };
-  void listen();
+  listenForNotices(db, log, CREDENTIAL_CHANGES_CHANNEL, 'cached keys and tenants', {
+    onNotice: (payload) => handlers.onChange(parseChange(payload)),
+    onDeaf: handlers.onDeaf,
+    onListening: handlers.onListening,
+  });
 }

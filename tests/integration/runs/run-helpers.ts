@@ -1,7 +1,21 @@
-// Shared by the runs tests: a small spec (a solve of ~0.1 s), a fast queue configuration, and
-// polling for a run to reach a state through the API.
+// Shared by the runs tests: a small spec (a solve of ~0.1 s), a fast queue configuration, a
+// result to finish a run with by hand, and polling for a run to reach a state through the API.
 import type { Express } from 'express';
 import request from 'supertest';
+import type { RunResult } from '@gridwright/shared/run-result';
+import type { finishRun } from '../../../api/src/runs/transitions';
+
+/** A succeeded result with only an objective and a model size, for finishing a run without solving it. */
+export const handMadeResult = (objective: number, binaries: number) =>
+  ({
+    status: 'succeeded',
+    outcome: 'optimal',
+    objective: { value: objective, bound: objective, gap: 0 },
+    kpis: null,
+    schedule: null,
+    model: { binaries } as unknown as RunResult['model'],
+    warnings: [],
+  }) as unknown as Parameters<typeof finishRun>[2];
 
 /** Queue timings short enough for tests; production defaults are in api/src/config.ts. */
 export const FAST_QUEUE_ENV = {
