@@ -16,7 +16,7 @@ import { SolveBudget } from './solve-budget';
 import { solveRolling, type HorizonSolve } from './solve-rolling';
 import { BOUND_TIME_SHARE, horizonBound } from './horizon-bound';
 import { relativeGap } from './solve-in-blocks';
-import { failedRecord, solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
+import { endedWithoutSchedule, failedRecord, solveSequence, type SolveContext, type WindowRecord } from './solve-sequence';
 import { specWarnings } from './spec-warnings';
 import type { StoreValuation } from './terminal-values';
 import type { SolverIdentity, SolverPort } from './solver-port';
@@ -127,14 +127,24 @@ function offBandWindows(records: WindowRecord[]) {
     .map((r) => ({ outside: r.result.rangesOutsideBand, steps: { from: r.window.from, to: r.window.from + r.window.steps - 1 } }));
 }
 
-function failureWarnings(spec: ResolvedSiteSpec, failed: WindowRecord): ResultWarning[] {
+/** `windowsWithSchedule` of `windowsPlanned` rolling windows had a schedule when the run failed (null: one model). */
+function failureWarnings(
+  spec: ResolvedSiteSpec,
+  failed: WindowRecord,
+  progress: { windowsWithSchedule: number; windowsPlanned: number } | null,
+): ResultWarning[] {
   const { window, result } = failed;
   const steps = { from: window.from, to: window.from + window.steps - 1 };
   if (result.outcome === 'no-solution') {
+    // A long rolling run stopped part-way: how far it got tells the user how much more time it needs.
+    const howFar = progress
+      ? ` ${progress.windowsWithSchedule} of ${progress.windowsPlanned} rolling windows had a schedule by then; a longer ` +
+        'solver.timeLimitSeconds gives every window more time to find one.'
+      : '';
     return [
       {
         code: 'time-limit',
-        message: `The time limit of ${spec.solver.timeLimitSeconds} s ran out before a feasible schedule was found for steps ${steps.from}–${steps.to}.`,
+        message: `The time limit of ${spec.solver.timeLimitSeconds} s ran out before a feasible schedule was found for steps ${steps.from}–${steps.to}.${howFar}`,
         pointer: '/solver/timeLimitSeconds',
       },
     ];
@@ -209,7 +219,15 @@ export async function solveSite(spec: ResolvedSiteSpec, opts: SolveOptions): Pro
   addWindows(spec, report, solved.records);
   const numerics = coefficientRangeWarning(spec, offBandWindows(solved.records));
   if (numerics) warnings.push(numerics);
-  if (solved.failed) return noSchedule(solved.failed.result.outcome, failureWarnings(spec, solved.failed));
+  if (solved.failed) {
+    const progress = segments
+      ? {
+          windowsWithSchedule: solved.records.filter((r) => r.kind === 'window' && !endedWithoutSchedule(r.result)).length,
+          windowsPlanned: segments.reduce((n, s) => n + s.windows.length, 0),
+        }
+      : null;
+    return noSchedule(solved.failed.result.outcome, failureWarnings(spec, solved.failed, progress));
+  }
 
   const schedule = toSchedule(spec, buffers);
   const check = verifySchedule(spec, schedule);
