@@ -10,10 +10,17 @@ import { surviveDatabaseOutages } from './lib/survive-database-outages';
 const ctx = await createContext();
 surviveDatabaseOutages(ctx.log);
 await ctx.db.runMigrations({ transaction: 'each' });
-const demo = ctx.config.seedDemo && !ctx.config.production ? await seedDemo(ctx, [(c, seed) => seedDemoRuns(c, seed.tenantId).then(() => undefined)]) : null;
+const demo = ctx.config.seedDemo && !ctx.config.production ? await seedDemo(ctx) : null;
 
 const server = await startServer(ctx);
 const workers = await startWorkers(ctx, { concurrency: ctx.config.workerConcurrency });
+// In the background: each demo run waits for the one before it to end.
+const demoRuns = new AbortController();
+if (demo) {
+  seedDemoRuns(ctx, demo.tenantId, demoRuns.signal).catch((err) => {
+    if (!demoRuns.signal.aborted) ctx.log.error({ err }, 'Seeding the demo runs failed');
+  });
+}
 const url = `http://${ctx.config.host}:${ctx.config.port}`;
 ctx.log.info({ url }, 'Gridwright is serving');
 process.stderr.write(`\n  Gridwright  ${url}\n  API docs    ${url}/docs\n  Readiness   ${url}/readyz\n\n`);
@@ -26,6 +33,7 @@ let stopping = false;
 async function shutdown() {
   if (stopping) return;
   stopping = true;
+  demoRuns.abort();
   await new Promise<void>((resolve) => server.close(() => resolve()));
   // Runs still solving after 5 s are queued again by other workers once this process is gone.
   await workers.stop(5_000);

@@ -1,6 +1,6 @@
 // The local demo: an operator, one tenant with an owner, a developer and a viewer, and an API key.
-// Only into an empty database and never in production. Later seed steps (demo runs, say) are
-// passed in and get the seeded tenant.
+// Only into an empty database and never in production. The demo runs are seeded after it, by
+// `demo-runs.ts`, once a worker is there to solve them.
 import type { AppContext } from '../context';
 import { Tenant } from '../db/entities/tenant';
 import { User } from '../db/entities/user';
@@ -16,8 +16,6 @@ export interface DemoSeed {
   accounts: { role: Role; email: string; password: string }[];
 }
 
-export type DemoSeedStep = (ctx: AppContext, seed: DemoSeed) => Promise<void>;
-
 // Fixed on purpose so the README can list them; they exist only in local demo databases.
 export const DEMO_ACCOUNTS: DemoSeed['accounts'] = [
   { role: 'operator', email: 'operator@gridwright.local', password: 'demo-operator-pass' },
@@ -31,7 +29,7 @@ export async function databaseIsEmpty(ctx: AppContext): Promise<boolean> {
 }
 
 /** Seeds the demo and returns what it made, or null when the database already has tenants or people. */
-export async function seedDemo(ctx: AppContext, steps: DemoSeedStep[] = []): Promise<DemoSeed | null> {
+export async function seedDemo(ctx: AppContext): Promise<DemoSeed | null> {
   if (ctx.config.production) throw new Error('The demo seed is refused when NODE_ENV=production.');
   if (!(await databaseIsEmpty(ctx))) return null;
   const tenant = await createTenant(ctx, { slug: 'demo', name: 'Demo Energy Park', planId: 'field' });
@@ -41,9 +39,7 @@ export async function seedDemo(ctx: AppContext, steps: DemoSeedStep[] = []): Pro
     }
   });
   const { key } = await createApiKey(ctx, { tenantId: tenant.id, name: 'demo key', scopes: [...SCOPES] }, { email: 'seed' });
-  const seed: DemoSeed = { tenantId: tenant.id, tenantSlug: tenant.slug, apiKey: key, accounts: DEMO_ACCOUNTS };
-  for (const step of steps) await step(ctx, seed);
-  return seed;
+  return { tenantId: tenant.id, tenantSlug: tenant.slug, apiKey: key, accounts: DEMO_ACCOUNTS };
 }
 
 export function describeDemoSeed(seed: DemoSeed, url: string): string {

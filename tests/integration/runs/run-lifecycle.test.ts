@@ -130,7 +130,7 @@ describe('a run through the queue', () => {
     expect((await request(t.app).get(`/v1/runs/${runId}/schedule?format=csv&profile=plant-north`).set(bearer(key))).status).toBe(404);
   });
 
-  it('seeds the demo runs once, and the worker solves every shared example', async () => {
+  it('seeds the demo runs once, one at a time, and the worker solves every shared example', async () => {
     const ids = await seedDemoRuns(t.ctx, tenantId);
     expect(ids).toHaveLength(exampleSites.length);
     expect(await seedDemoRuns(t.ctx, tenantId)).toEqual(ids);
@@ -138,8 +138,15 @@ describe('a run through the queue', () => {
       const run = await waitForRun(t.app, key, id, undefined, 60_000);
       expect(run.status, JSON.stringify(run.error)).toBe('succeeded');
     }
+    // Each was submitted after the one before it ended, so the seeded runs held one concurrent place.
+    const rows: { id: string; created: Date; finished: Date }[] = await t.ctx.db.query(
+      'SELECT id, created_at AS created, finished_at AS finished FROM runs WHERE id = ANY($1) ORDER BY created_at',
+      [ids],
+    );
+    expect(rows.map((r) => r.id)).toEqual(ids);
+    for (let i = 1; i < rows.length; i++) expect(rows[i].created.getTime()).toBeGreaterThanOrEqual(rows[i - 1].finished.getTime());
     demoRunIds = ids;
-  });
+  }, 300_000);
 
   it('exports every v1.1 demo schedule as CSV equal to its JSON schedule, column by column', async () => {
     expect(demoRunIds).toHaveLength(exampleSites.length);
