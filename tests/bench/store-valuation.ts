@@ -1,8 +1,8 @@
 // The bench's store-valuation section, a design benchmark: how a non-final rolling window should value
-// product it leaves in a store (api/src/engine/terminal-values.ts). The merit-order water value of the
-// whole horizon (what runs use) against no value and against the median energy value used for
-// batteries, on the pump-station and power-to-X demo sites repeated over several days: each rolling
-// objective against the monolithic optimum of the same horizon.
+// product it leaves in a store (api/src/engine/terminal-values.ts). The value curve of the steps after
+// the window's end (what runs use) against one merit-order value for the whole horizon, no value, and
+// the median energy value used for batteries, on the pump-station and power-to-X demo sites repeated
+// over several days: each rolling objective against the monolithic optimum of the same horizon.
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { solveSite } from '../../api/src/engine/solve-site';
 import type { StoreValuation } from '../../api/src/engine/terminal-values';
@@ -10,7 +10,7 @@ import { verifySchedule } from '../../api/src/engine/verify-schedule';
 import { repeatedExample } from '../engine/synthetic-sites';
 import { resultRow, timedSolve, type BenchSection, type SectionOptions, type SectionRow } from './rolling-bound';
 
-const VALUATIONS: StoreValuation[] = ['water-value', 'median-energy', 'none'];
+const VALUATIONS: StoreValuation[] = ['value-curve', 'horizon-value', 'median-energy', 'none'];
 
 export async function storeValuationSection({ solver, quick, log }: SectionOptions): Promise<BenchSection> {
   const rows: SectionRow[] = [];

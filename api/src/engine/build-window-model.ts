@@ -158,7 +158,8 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       const last = k === n - 1;
       const lo = last ? (sp.endFixed ?? Math.max(s.min, sp.endFloor)) : s.min;
       const hi = last ? (sp.endFixed ?? s.capacity) : s.capacity;
-      const value = last ? (sp.terminalValuePerUnit * Q) / M : 0;
+      const flat = last && sp.terminalValue.length === 1 && sp.terminalValue[0].width === Infinity;
+      const value = flat ? (sp.terminalValue[0].value * Q) / M : 0;
       c.level[k] = a.col(ColKind.StoreLevel, k, j, value, lo / Q, hi / Q);
       const demand = s.demandPerHour[t];
       if (s.shortfallPenaltyPerUnit !== null && demand > 0) {
@@ -171,6 +172,8 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       cols.reserveShortfall[k] = a.col(ColKind.ReserveShortfall, k, -1, -perKwh(reservePenalty), 0, plan.reserveKw[k] / P);
     }
   }
+
+  spec.stores.forEach((s, j) => addStoreEndValue(a, plan, cols.stores[j].level[n - 1], j, s.min, M));
 
   spec.grid.demandCharges.forEach((charge, c) => {
     const dp = plan.demandCharges[c];
@@ -345,4 +348,19 @@ function collectBigM(plan: WindowPlan, cols: WindowColumns): BigMEntry[] {
     if (cols.peaks[i] >= 0) list.push({ where: `${c.id} demand-charge peak (import limit)`, value: plan.demandCharges[i].capKw });
   });
   return list;
+}
+
+/**
+ * A store's end value as a concave curve (terminal-values.ts): one column per slice, worth its
+ * value a unit up to its width, together at most the level left above the store's minimum. A
+ * flat value sits on the level column instead (buildWindowModel).
+ */
+function addStoreEndValue(a: ModelAssembler, plan: WindowPlan, level: number, j: number, min: number, M: number): void {
+  const { terminalValue: curve, scale: Q } = plan.stores[j];
+  if (curve.length === 0 || (curve.length === 1 && curve[0].width === Infinity)) return;
+  const last = plan.window.steps - 1;
+  const slices = curve.map((slice) => a.col(ColKind.StoreEndValue, last, j, (slice.value * Q) / M, 0, slice.width / Q));
+  a.row(RowKind.StoreEndValue, last, j, -Infinity, -min / Q);
+  for (const col of slices) a.entry(col, 1);
+  a.entry(level, -1);
 }

@@ -45,6 +45,8 @@ function rowPart(spec: ResolvedSiteSpec, kind: RowKind, entity: number): Part {
       return { pointer: supplyOnlyPointer(spec), what: 'import kept from a battery that charges from supply only' };
     case RowKind.StoreLevel:
       return { pointer: `/stores/${entity}/demandPerHour`, what: `store "${store.id}" level balance (production, consumption and demand)` };
+    case RowKind.StoreEndValue:
+      return { pointer: `/stores/${entity}`, what: `store "${store.id}" value of product left at the window's end` };
     case RowKind.Balance:
       return { pointer: '/siteLoad/kw', what: 'the power balance (site load against supply, grid, units and storage)' };
     case RowKind.UnitMinStable:
@@ -92,6 +94,8 @@ function colPart(spec: ResolvedSiteSpec, kind: ColKind, entity: number, lastStep
       return { pointer: `/stores/${entity}/demandPerHour`, what: `store "${store.id}" shortfall (at most the demand)` };
     case ColKind.StoreSpill:
       return { pointer: `/stores/${entity}/spillAllowed`, what: `store "${store.id}" spill` };
+    case ColKind.StoreEndValue:
+      return { pointer: `/stores/${entity}`, what: `store "${store.id}" value of product left at the window's end` };
     case ColKind.Supply:
       return { pointer: '/supply/availableKw', what: 'available supply' };
     case ColKind.Import:

@@ -39,6 +39,8 @@ export enum RowKind {
   DemandChargePeak,
   SupplyOnlyImport,
   StoreLevel,
+  /** A non-final window's credit for product left in a store: its slices hold at most the level above the minimum. */
+  StoreEndValue,
 }
 
 export enum ColKind {
@@ -63,6 +65,8 @@ export enum ColKind {
   StoreLevel,
   StoreShortfall,
   StoreSpill,
+  /** A slice of a store's end value (StoreEndValue row). */
+  StoreEndValue,
   /** A bound block's free state before its first step (horizon-bound.ts). */
   StorageStartSoc,
   StoreStartLevel,

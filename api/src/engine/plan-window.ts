@@ -2,7 +2,7 @@ import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import { chooseScales, type Scales } from './choose-scales';
 import { demandChargeSteps } from './demand-charge-steps';
 import { storeLevelFloors } from './store-floors';
-import { islandEnergyValue, lookaheadEnergyValue, medianEnergyStoreValue, storeProductValues, type StoreValuation } from './terminal-values';
+import { flatValue, islandEnergyValue, lookaheadEnergyValue, medianEnergyStoreValue, storeProductValues, storeValueCurve, type StoreValuation, type ValueSlice } from './terminal-values';
 import { TINY } from './numerics';
 import { ratingSums, storageStepLimits } from './site-ratings';
 
@@ -115,8 +115,8 @@ export interface StorePlan {
   endFloor: number;
   /** Level after the window's last step when the window must end in a given state, else null. */
   endFixed: number | null;
-  /** Money per unit credited for product left at the end of a non-final window. */
-  terminalValuePerUnit: number;
+  /** Money per unit credited for product above the store's minimum left at the end of a non-final window: a concave curve, no slices for none. */
+  terminalValue: ValueSlice[];
   /** A bound block's free start level costs this per unit; null: the start level is the start state's. */
   startPricePerUnit: number | null;
 }
@@ -192,13 +192,13 @@ export interface SiteFacts {
   /** Per demand charge, 1 at the steps its window covers. */
   chargeSteps: Uint8Array[];
   storeFloors: Float64Array[];
-  /** Per store, what a unit of its product left at a non-final window's end is credited at (storeProductValues). */
+  /** Per store, one value of a unit of its product over the whole horizon (storeProductValues). */
   storeValues: number[];
-  /** How product left at a non-final window's end is valued ('water-value' in every run: storeValues). */
+  /** How product left at a non-final window's end is valued ('value-curve' in every run). */
   storeValuation: StoreValuation;
 }
 
-export function siteFacts(spec: ResolvedSiteSpec, storeValuation: StoreValuation = 'water-value'): SiteFacts {
+export function siteFacts(spec: ResolvedSiteSpec, storeValuation: StoreValuation = 'value-curve'): SiteFacts {
   const island = spec.storage.length || spec.stores.length ? islandEnergyValue(spec) : 0;
   return {
     scales: chooseScales(spec, spec.solver.reductions.scaling),
@@ -403,7 +403,7 @@ export function planWindow(
     scale: scales.stores[j],
     endFloor: Math.min(s.capacity, storeFloors[j][lastStep]),
     endFixed: window.endState ? window.endState.storeLevels[j] : null,
-    terminalValuePerUnit: links ? (links.end?.storePerUnit[j] ?? 0) : credits ? creditedStoreValue(spec, facts, j, energyValue) : 0,
+    terminalValue: links ? flatValue(links.end?.storePerUnit[j] ?? 0) : credits ? creditedStoreValue(spec, facts, window, j, energyValue) : [],
     startPricePerUnit: links?.start ? links.start.storePerUnit[j] : null,
   }));
 
@@ -424,10 +424,22 @@ export function planWindow(
   return { spec, facts, window, start, scales, dh, units, storage, stores, demandCharges, reserveKw, supplyOnlyCap, grid, binariesBefore, integerSteps };
 }
 
-/** What a non-final window credits a unit of store `j`'s product at, by the solve's store valuation. */
-function creditedStoreValue(spec: ResolvedSiteSpec, facts: SiteFacts, j: number, energyValue: number): number {
-  if (facts.storeValuation === 'none') return 0;
-  return facts.storeValuation === 'water-value' ? facts.storeValues[j] : medianEnergyStoreValue(spec, j, energyValue);
+/**
+ * What a non-final window credits store `j`'s product at, by the solve's store valuation; the
+ * value curve reads the steps after the window's end, as many as the window has.
+ */
+function creditedStoreValue(spec: ResolvedSiteSpec, facts: SiteFacts, window: HorizonWindow, j: number, energyValue: number): ValueSlice[] {
+  const after = window.from + window.steps;
+  switch (facts.storeValuation) {
+    case 'value-curve':
+      return storeValueCurve(spec, j, after, Math.min(spec.horizon.steps, after + window.steps), facts.island);
+    case 'horizon-value':
+      return flatValue(facts.storeValues[j]);
+    case 'median-energy':
+      return flatValue(medianEnergyStoreValue(spec, j, energyValue));
+    case 'none':
+      return [];
+  }
 }
 
 /** A unit's ramp limits in kW per step, with the start and stop allowances of SPEC §5; null without any. */
