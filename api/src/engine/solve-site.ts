@@ -35,7 +35,7 @@ export interface SolveOptions {
   onProgress?: (p: { windowsDone: number; windowsTotal: number }) => void;
   /** The solver's log lines. */
   onLog?: (line: string) => void;
-  /** How rolling windows value product left in a store; runs use the default 'water-value' (terminal-values.ts). */
+  /** How rolling windows value product left in a store; runs use the default 'value-curve' (terminal-values.ts). */
   storeValuation?: StoreValuation;
 }
 
