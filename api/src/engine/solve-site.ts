@@ -127,6 +127,17 @@ function offBandWindows(records: WindowRecord[]) {
     .map((r) => ({ outside: r.result.rangesOutsideBand, steps: { from: r.window.from, to: r.window.from + r.window.steps - 1 } }));
 }
 
+/**
+ * What time limit a rolling run that ran out would need: at the pace of the windows that found a
+ * schedule, the whole horizon, rounded up to a minute.
+ */
+function timeAdvice(spec: ResolvedSiteSpec, progress: { windowsWithSchedule: number; windowsPlanned: number }): string {
+  const advice = 'a longer solver.timeLimitSeconds gives every window more time to find one.';
+  if (progress.windowsWithSchedule === 0) return advice;
+  const seconds = 60 * Math.ceil((spec.solver.timeLimitSeconds * progress.windowsPlanned) / progress.windowsWithSchedule / 60);
+  return `at that pace the whole horizon needs about ${seconds} s, and ${advice}`;
+}
+
 /** `windowsWithSchedule` of `windowsPlanned` rolling windows had a schedule when the run failed (null: one model). */
 function failureWarnings(
   spec: ResolvedSiteSpec,
@@ -138,8 +149,7 @@ function failureWarnings(
   if (result.outcome === 'no-solution') {
     // A long rolling run stopped part-way: how far it got tells the user how much more time it needs.
     const howFar = progress
-      ? ` ${progress.windowsWithSchedule} of ${progress.windowsPlanned} rolling windows had a schedule by then; a longer ` +
-        'solver.timeLimitSeconds gives every window more time to find one.'
+      ? ` ${progress.windowsWithSchedule} of ${progress.windowsPlanned} rolling windows had a schedule by then; ${timeAdvice(spec, progress)}`
       : '';
     return [
       {
