@@ -1,6 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
-import { rangesOutsideBand } from '../../api/src/engine/coefficient-ranges';
+import { coefficientRanges, rangesOutsideBand } from '../../api/src/engine/coefficient-ranges';
+import { ModelAssembler } from '../../api/src/engine/model-assembler';
+import { ColKind, RowKind } from '../../api/src/engine/model-arrays';
 import { HEALTHY_COEFFICIENT_BAND } from '../../api/src/engine/numerics';
 import { solveSite } from '../../api/src/engine/solve-site';
 import { HighsSolverPool } from '../../api/src/solver/highs-solver-pool';
@@ -45,6 +47,19 @@ describe('coefficient ranges', () => {
       objective: [low / 2, 1],
       bounds: [1, high * 2],
     });
+  });
+
+  it('writes a row bound of float noise as 0, so it does not count as a coefficient', () => {
+    // 0.1 + 0.2 − 0.3 is 5.6e-17 in floating point: what a carried start level minus a step's net demand can leave.
+    const a = new ModelAssembler();
+    const x = a.col(ColKind.StoreLevel, 0, 0, 1, 0, 2);
+    a.row(RowKind.StoreLevel, 0, 0, 0.1 + 0.2 - 0.3, 0.1 + 0.2 - 0.3);
+    a.entry(x, 1);
+    a.row(RowKind.StoreLevel, 1, 0, 0.5, 0.5);
+    a.entry(x, 1);
+    const { model } = a.finish();
+    expect(Array.from(model.rowLower)).toEqual([0, 0.5]);
+    expect(coefficientRanges(model).rhs).toEqual([0.5, 0.5]);
   });
 
   it('warns once per run when a model with scaling off leaves the band, naming the cause', async () => {

@@ -1,5 +1,13 @@
 import { GrowableArray } from './growable-array';
 import { ColKind, RowKind, type ModelArrays, type ModelTags } from './model-arrays';
+import { TINY } from './numerics';
+
+/**
+ * A row bound that is float noise (a start level that cancels a step's net demand to 1e-15, say) is
+ * written as 0: in the model's order-one units it means 0, and left alone it would read as a
+ * coefficient fifteen orders of magnitude from the rest in the formulation report.
+ */
+const noiseToZero = (x: number) => (Math.abs(x) < TINY ? 0 : x);
 
 /**
  * Collects columns, rows and entries of one MILP in typed arrays and packs them as CSC. Entries
@@ -38,8 +46,8 @@ export class ModelAssembler {
   }
 
   row(kind: RowKind, step: number, entity: number, lower: number, upper: number): number {
-    this.rowLo.push(lower);
-    this.rowHi.push(upper);
+    this.rowLo.push(noiseToZero(lower));
+    this.rowHi.push(noiseToZero(upper));
     this.rowKind.push(kind);
     this.rowStep.push(step);
     this.rowEntity.push(entity);
