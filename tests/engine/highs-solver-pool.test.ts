@@ -82,6 +82,36 @@ describe('HiGHS solver pool', () => {
     expect(early.objective!).toBeLessThanOrEqual(full.objective! + 1e-6 * Math.abs(full.objective!));
   }, 600_000);
 
+  it("takes a MIP start: given the optimum's on/off values alone, it completes them into a schedule", async () => {
+    const spec = resolve(exampleSites.find((e) => e.id === 'island-microgrid')!.spec as any);
+    const window = monolithicWindow(spec)[0];
+    const built = buildWindowModel(planWindow(spec, siteFacts(spec), window, initialState(spec)));
+    const hard = () => Deadline.after(600);
+    const full = await pool.solve(built.model, { deadline: hard(), mipGap: 1e-4 });
+    expect(full.status).toBe('optimal');
+
+    // Every other column left open (NaN): HiGHS finds their values for these on/off values.
+    const start = new Float64Array(built.model.numCols).fill(NaN);
+    for (const u of built.columns.units) for (const c of u.on) if (c >= 0) start[c] = Math.round(full.colValue![c]);
+    const lines: string[] = [];
+    const taken = await pool.solve(built.model, { deadline: hard(), stopWithSolutionBy: Deadline.after(0), mipGap: 1e-4, mipStart: start, onLog: (l) => lines.push(l) });
+    expect(lines.join('')).toMatch(/MIP start solution is feasible/);
+    expect(taken.colValue).not.toBeNull();
+    // Its schedule keeps the start's on/off values; HiGHS's completion of the rest is feasible, not
+    // necessarily the best for them, and it stopped at once, so it is never better than the optimum.
+    for (const u of built.columns.units) for (const c of u.on) if (c >= 0) expect(Math.round(taken.colValue![c])).toBe(start[c]);
+    expect(taken.objective!).toBeLessThanOrEqual(full.objective! + 1e-6 * Math.abs(full.objective!));
+
+    // A start that breaks a bound (an on/off value of 2) is dropped, and the solve goes on to the optimum.
+    const wrong = start.slice();
+    wrong[built.columns.units[0].on.find((c) => c >= 0)!] = 2;
+    const rejected: string[] = [];
+    const after = await pool.solve(built.model, { deadline: hard(), mipGap: 1e-4, mipStart: wrong, onLog: (l) => rejected.push(l) });
+    expect(rejected.join('')).not.toMatch(/MIP start solution is feasible/);
+    expect(after.status).toBe('optimal');
+    expect(after.objective!).toBeCloseTo(full.objective!, 3);
+  }, 600_000);
+
   it('recycles workers after their quota of solves without losing results', async () => {
     const values: number[] = [];
     for (let i = 0; i < 5; i++) values.push((await solveSite(small(), { solver: pool })).objective.value!);

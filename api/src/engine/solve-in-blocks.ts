@@ -38,6 +38,7 @@ export async function solveInBlocks(solver: SolverPort, model: ModelArrays, requ
   const solvePart = async (k: number, extra: Partial<SolveRequest> = {}): Promise<SolveReply> => {
     const r = await solver.solve(parts[k], {
       ...request,
+      mipStart: request.mipStart && Float64Array.from(blocks[k].cols, (j) => request.mipStart![j]),
       ...extra,
       signal: stop.signal,
       onLog: request.onLog && ((line) => request.onLog!(`[block ${k + 1}/${parts.length}] ${line}`)),

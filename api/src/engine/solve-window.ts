@@ -1,6 +1,6 @@
 import type { ResolvedSiteSpec } from '@gridwright/shared/site-spec';
 import type { ResultWarning, SolveOutcome } from '@gridwright/shared/run-result';
-import { buildWindowModel, type BigMEntry } from './build-window-model';
+import { buildWindowModel, type BigMEntry, type BuiltModel } from './build-window-model';
 import type { Scales } from './choose-scales';
 import { coefficientRanges, rangesOutsideBand, type CoefficientRanges } from './coefficient-ranges';
 import type { Deadline } from './deadline';
@@ -41,6 +41,11 @@ export interface WindowSolve {
 
 export interface WindowSolveOptions {
   solver: SolverPort;
+  /**
+   * `buffers` holds a committed schedule from this step up to the window: the solve starts from
+   * yesterday's commitment (yesterdaysCommitment) where that reaches a day back. Absent: no guess.
+   */
+  guessFrom?: number;
   /** The window's share of the run's time: its blocks and re-solves all end by it. */
   deadline: Deadline;
   /** Where given, the window's solves stop here once they hold a feasible schedule (SolveRequest). */
@@ -79,6 +84,7 @@ export async function solveWindow(
     const built = buildWindowModel(plan);
     buildSeconds += now() - t0;
     const ranges = coefficientRanges(built.model);
+    const mipStart = round === 0 && opts.guessFrom !== undefined ? yesterdaysCommitment(spec, window, built, buffers, opts.guessFrom) : undefined;
     const outside = rangesOutsideBand(ranges);
     const res = await solveInBlocks(
       opts.solver,
@@ -87,6 +93,7 @@ export async function solveWindow(
         deadline: opts.deadline,
         stopWithSolutionBy: opts.stopWithSolutionBy,
         mipGap: spec.solver.mipGap,
+        mipStart,
         wantIis: built.model.numCols <= IIS_MAX_COLUMNS,
         signal: opts.signal,
         onLog: opts.onLog,
@@ -134,4 +141,21 @@ export async function solveWindow(
     for (const t of left.grid) forced.grid.add(t - window.from);
     left.storage.forEach((steps, i) => steps.forEach((t) => forced.storage[i].add(t - window.from)));
   }
+}
+
+/**
+ * A first guess for a window a day or more into its sequence: every unit on or off as it was at the
+ * same time of day on the last committed day. Sites that follow the sun and the daily load repeat
+ * much of yesterday; the solver checks the guess and drops it if it breaks a rule here. Only the
+ * on/off columns are given: the solver completes the rest.
+ */
+function yesterdaysCommitment(spec: ResolvedSiteSpec, window: HorizonWindow, built: BuiltModel, buffers: ScheduleBuffers, committedFrom: number): Float64Array | undefined {
+  const day = Math.round(1440 / spec.horizon.stepMinutes);
+  const yesterday = window.from - day;
+  if (yesterday < committedFrom || !built.binaries || !spec.units.length) return undefined;
+  const guess = new Float64Array(built.model.numCols).fill(NaN);
+  built.columns.units.forEach((cols, i) => {
+    for (let k = 0; k < window.steps; k++) if (cols.on[k] >= 0) guess[cols.on[k]] = buffers.units[i].on[yesterday + (k % day)];
+  });
+  return guess;
 }

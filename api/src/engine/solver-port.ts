@@ -35,6 +35,11 @@ export interface SolveRequest {
   stopWithSolutionBy?: Deadline;
   /** Relative MIP gap at which the solver may stop. */
   mipGap: number;
+  /**
+   * A guess at a MIP's solution, one value per column, NaN where there is none: the solver tries
+   * it (completing the columns left open) and keeps it as its first incumbent if it is feasible.
+   */
+  mipStart?: Float64Array;
   /** Absolute gap in the model's objective units; absent ⇒ the solver's default. */
   mipAbsGap?: number;
   /** Find an irreducible infeasible subsystem when the model is proved infeasible. */

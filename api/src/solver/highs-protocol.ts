@@ -20,6 +20,8 @@ export interface HighsSolveMessage {
   stopWithSolutionAfterSeconds: number | null;
   mipGap: number;
   mipAbsGap?: number;
+  /** SolveRequest.mipStart, or null. */
+  mipStart: Float64Array | null;
   wantIis: boolean;
   wantDuals: boolean;
   /** Forward HiGHS's log lines; off, HiGHS formats and posts none. */

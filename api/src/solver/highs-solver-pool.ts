@@ -260,6 +260,7 @@ export class HighsSolverPool implements SolverPort {
         timeLimitSeconds,
         stopWithSolutionAfterSeconds: request.stopWithSolutionBy ? Math.min(timeLimitSeconds, request.stopWithSolutionBy.remainingSeconds()) : null,
         mipGap: request.mipGap,
+        mipStart: request.mipStart ?? null,
         ...(request.mipAbsGap !== undefined ? { mipAbsGap: request.mipAbsGap } : {}),
         wantIis: request.wantIis ?? false,
         wantDuals: request.wantDuals ?? false,

@@ -64,6 +64,7 @@ function solve(req: HighsSolveMessage): HighsResult {
   stopWithSolutionAtMs = req.stopWithSolutionAfterSeconds === null ? Infinity : performance.now() + req.stopWithSolutionAfterSeconds * 1000;
   try {
     model.options.set(highsOptions(isMip, req));
+    if (isMip && req.mipStart) offerStart(model, m, req.mipStart);
     const run = model.run({
       0: (event) => {
         post({ type: 'log', id: req.id, line: event.message.replace(/\n$/, '') });
@@ -111,6 +112,27 @@ function solve(req: HighsSolveMessage): HighsResult {
     };
   } finally {
     model.dispose();
+  }
+}
+
+/**
+ * The columns of a MIP start that have a value, as HiGHS's sparse start; HiGHS checks it against
+ * the rows and completes the rest. A start outside a column's bounds is not offered (HiGHS refuses
+ * it with an error), and one HiGHS refuses is dropped: a start is a guess, never a reason to fail.
+ */
+function offerStart(model: { setSolution(start: { indices: Int32Array; values: Float64Array }): unknown }, m: HighsSolveMessage['model'], start: Float64Array): void {
+  const indices: number[] = [];
+  for (let j = 0; j < start.length; j++) {
+    const v = start[j];
+    if (Number.isNaN(v)) continue;
+    if (v < m.colLower[j] || v > m.colUpper[j]) return;
+    indices.push(j);
+  }
+  if (!indices.length) return;
+  try {
+    model.setSolution({ indices: Int32Array.from(indices), values: Float64Array.from(indices, (j) => start[j]) });
+  } catch {
+    // Refused: the solve goes on without it.
   }
 }
 
