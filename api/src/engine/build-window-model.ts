@@ -1,6 +1,7 @@
 import { ModelAssembler } from './model-assembler';
 import { ColKind, RowKind, type ModelArrays, type ModelTags } from './model-arrays';
 import type { WindowPlan } from './plan-window';
+import { flatCredit } from './terminal-values';
 import { sliceWidths } from './unit-curves';
 import { addUnitRows, coldStartPossible } from './unit-rows';
 
@@ -158,8 +159,7 @@ export function buildWindowModel(plan: WindowPlan): BuiltModel {
       const last = k === n - 1;
       const lo = last ? (sp.endFixed ?? Math.max(s.min, sp.endFloor)) : s.min;
       const hi = last ? (sp.endFixed ?? s.capacity) : s.capacity;
-      const flat = last && sp.terminalValue.length === 1 && sp.terminalValue[0].width === Infinity;
-      const value = flat ? (sp.terminalValue[0].value * Q) / M : 0;
+      const value = last ? ((flatCredit(sp.terminalValue) ?? 0) * Q) / M : 0;
       c.level[k] = a.col(ColKind.StoreLevel, k, j, value, lo / Q, hi / Q);
       const demand = s.demandPerHour[t];
       if (s.shortfallPenaltyPerUnit !== null && demand > 0) {
@@ -357,7 +357,7 @@ function collectBigM(plan: WindowPlan, cols: WindowColumns): BigMEntry[] {
  */
 function addStoreEndValue(a: ModelAssembler, plan: WindowPlan, level: number, j: number, min: number, M: number): void {
   const { terminalValue: curve, scale: Q } = plan.stores[j];
-  if (curve.length === 0 || (curve.length === 1 && curve[0].width === Infinity)) return;
+  if (flatCredit(curve) !== null) return;
   const last = plan.window.steps - 1;
   const slices = curve.map((slice) => a.col(ColKind.StoreEndValue, last, j, (slice.value * Q) / M, 0, slice.width / Q));
   a.row(RowKind.StoreEndValue, last, j, -Infinity, -min / Q);

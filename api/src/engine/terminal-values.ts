@@ -54,6 +54,10 @@ export interface ValueSlice {
 /** A concave curve that credits every unit alike; no slices for a value of 0. */
 export const flatValue = (value: number): ValueSlice[] => (value > 0 ? [{ width: Infinity, value }] : []);
 
+/** The one value a curve credits every unit at (0 for no slices); null when its slices differ. */
+export const flatCredit = (curve: ValueSlice[]): number | null =>
+  curve.length === 0 ? 0 : curve.length === 1 && curve[0].width === Infinity ? curve[0].value : null;
+
 /** A step's producers offering `units` of product at `cost` per unit. */
 interface Offer {
   cost: number;
